@@ -1,0 +1,81 @@
+"""The ``lightpath`` command line: a thin layer over the Python API.
+
+Exit codes: 0 success, 2 bad input (one-line message, no traceback), 1 internal error.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+from collections.abc import Sequence
+
+from lightpath import __version__
+from lightpath.errors import InputError
+
+__all__ = ["COMMANDS", "build_parser", "main"]
+
+#: Subcommand modules under :mod:`lightpath.commands`, in the order ``--help`` lists them.
+COMMANDS = ("sun", "year", "inspect", "scan", "visit", "report", "frame", "epochs", "demo")
+
+EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with our exit code for usage errors (2) and a one-line message."""
+
+    def error(self, message: str) -> None:  # type: ignore[override]
+        self.exit(EXIT_BAD_INPUT, f"{self.prog}: error: {message}\n")
+
+
+def _command_modules():
+    modules = []
+    for name in COMMANDS:
+        try:
+            modules.append(importlib.import_module(f"lightpath.commands.{name}"))
+        except ModuleNotFoundError as exc:  # a command whose module has not landed yet
+            if exc.name != f"lightpath.commands.{name}":
+                raise
+    return modules
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser with every available subcommand."""
+    parser = _Parser(
+        prog="lightpath",
+        description="When sunlight enters an opening and reaches a chosen surface inside, at any epoch.",
+    )
+    parser.add_argument("--version", action="version", version=f"lightpath {__version__}")
+    parser.add_argument("--debug", action="store_true", help="show a traceback on internal errors")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    for module in _command_modules():
+        cmd = sub.add_parser(module.NAME, help=module.HELP, description=module.HELP)
+        module.add_arguments(cmd)
+        cmd.set_defaults(_run=module.run)
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; returns the exit code."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "_run", None):
+        parser.print_help()
+        return EXIT_OK
+    try:
+        return int(args._run(args) or EXIT_OK)
+    except InputError as exc:
+        print(f"lightpath {args.command}: error: {exc}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        print("lightpath: interrupted", file=sys.stderr)
+        return 130
+    except Exception as exc:  # noqa: BLE001 - the last guard of the command line
+        if args.debug:
+            raise
+        print(
+            f"lightpath {args.command}: internal error: {type(exc).__name__}: {exc} "
+            "(run with --debug for a traceback and please report it)",
+            file=sys.stderr,
+        )
+        return EXIT_INTERNAL

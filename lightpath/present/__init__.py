@@ -1,0 +1,1 @@
+"""Presentation: tables, JSON/CSV, iCalendar files, figures and HTML reports. Computes nothing new."""
