@@ -71,3 +71,108 @@ def test_vectorized_matches_scalar():
 def test_round_trip_any_epoch(year, month, day, calendar):
     jd = julian_day(year, month, day + 0.25, calendar=calendar)
     assert calendar_date(jd, calendar=calendar) == (year, month, pytest.approx(day + 0.25, abs=1e-6))
+
+
+# --- formatting, labels, day of the year and validation -----------------------------------------------------
+
+import datetime  # noqa: E402
+
+from lightpath.errors import InputError  # noqa: E402
+from lightpath.sky.calendar import (  # noqa: E402
+    date_label,
+    day_of_year,
+    days_in_month,
+    format_date,
+    is_leap_year,
+    validate_date,
+    year_from_label,
+)
+
+
+def test_format_date_astronomical_years():
+    assert format_date(julian_day(-3199, 11, 3.9)) == "-3199-11-03"
+    assert format_date(julian_day(-43, 3, 15.0)) == "-0043-03-15"
+    assert format_date(julian_day(0, 1, 1.0)) == "0000-01-01"
+    assert format_date(julian_day(2027, 2, 3.999)) == "2027-02-03"
+    assert format_date(julian_day(-9999, 1, 1.0)) == "-9999-01-01"
+    out = format_date(np.array([[2451545.0, 0.0]]))
+    assert out.shape == (1, 2) and out.tolist() == [["2000-01-01", "-4712-01-01"]]
+
+
+def test_format_date_forced_calendars():
+    # Meeus (1998) ch. 7: 1582 October 4 (Julian) is followed by 1582 October 15 (Gregorian).
+    jd = julian_day(1582, 10, 15.0)
+    assert format_date(jd) == "1582-10-15"
+    assert format_date(jd, calendar="julian") == "1582-10-05"
+    assert format_date(julian_day(1000, 1, 1.0), calendar="gregorian") == "1000-01-06"
+
+
+@given(st.integers(min_value=1, max_value=3_652_059))
+def test_format_date_matches_python_datetime(ordinal):
+    # Python's datetime uses the proleptic Gregorian calendar; ordinal 1 = 0001-01-01 = JD 1721425.5.
+    jd = ordinal + 1721424.5
+    expected = datetime.date.fromordinal(ordinal).isoformat()
+    assert format_date(jd, calendar="gregorian") == expected
+    assert int(day_of_year(jd, calendar="gregorian")) == datetime.date.fromordinal(ordinal).timetuple().tm_yday
+
+
+def test_date_label():
+    assert date_label(julian_day(-3199, 11, 3.5)) == "3200 BC November 3 (Julian)"
+    assert date_label(julian_day(2027, 2, 3.0)) == "2027 February 3 (Gregorian)"
+    assert date_label(julian_day(2027, 2, 3.0), calendar="julian") == "2027 January 21 (Julian)"
+
+
+def test_day_of_year_meeus_examples():
+    # Meeus (1998) Example 7.f: 1978 November 14 is day 318; Example 7.g: 1988 April 22 is day 113.
+    assert day_of_year(julian_day(1978, 11, 14.0)) == 318
+    assert day_of_year(julian_day(1988, 4, 22.5)) == 113
+    assert day_of_year(julian_day(-3199, 12, 31.9)) == 365  # 3200 BC is not a Julian leap year
+    assert day_of_year(julian_day(-3200, 12, 31.0)) == 366  # 3201 BC is
+    # 1582 under the default calendar: October 4 (Julian) is day 277 and the next day, October 15, day 278.
+    assert day_of_year(julian_day(1582, 10, 4.0)) == 277
+    assert day_of_year(julian_day(1582, 10, 15.0)) == 278
+    assert day_of_year(np.array([2451545.0, 2451910.0])).tolist() == [1, 366]
+
+
+@given(st.integers(min_value=1, max_value=9999))
+def test_gregorian_leap_years_match_python(year):
+    import calendar as pycal
+
+    assert bool(is_leap_year(year, "gregorian")) == pycal.isleap(year)
+    assert int(days_in_month(year, 2, "gregorian")) == pycal.monthrange(year, 2)[1]
+
+
+@pytest.mark.parametrize(
+    "date, calendar, words",
+    [
+        ((2027, 4, 31), "auto", "April has 30 days"),
+        ((2027, 13, 1), "auto", "month 13"),
+        ((2027, 0, 1), "auto", "month 0"),
+        ((2027, 1, 0), "auto", "day 0"),
+        ((1900, 2, 29), "auto", "February has 28 days"),
+        ((-3199, 2, 29), "julian", "February has 28 days"),
+        ((1582, 10, 10), "auto", "does not exist in the default calendar"),
+    ],
+)
+def test_validate_date_rejects(date, calendar, words):
+    with pytest.raises(InputError, match=words):
+        validate_date(*date, calendar=calendar)
+
+
+def test_validate_date_accepts():
+    assert validate_date(1900, 2, 29, calendar="julian") == "julian"
+    assert validate_date(1582, 10, 10, calendar="gregorian") == "gregorian"
+    assert validate_date(1582, 10, 4) == "julian"
+    assert validate_date(-3200, 2, 29.75) == "julian"
+
+
+def test_year_labels():
+    assert year_from_label("3200 BC") == -3199
+    assert year_from_label("1 BC") == 0
+    assert year_from_label("3200 bce") == -3199
+    assert year_from_label("AD 1") == 1
+    assert year_from_label("1 AD") == 1
+    assert year_from_label("-3199") == -3199
+    for bad in ("0 BC", "0 AD", "-5 BC", "BC", "twelve"):
+        with pytest.raises(InputError):
+            year_from_label(bad)

@@ -28,9 +28,18 @@ from numpy.typing import ArrayLike, NDArray
 __all__ = [
     "CALENDARS",
     "GREGORIAN_START_JD",
+    "MONTH_NAMES",
     "calendar_date",
     "calendar_for",
+    "calendar_of_date",
+    "date_label",
+    "day_of_year",
+    "days_in_month",
+    "format_date",
+    "is_leap_year",
     "julian_day",
+    "validate_date",
+    "year_from_label",
     "year_label",
 ]
 
@@ -171,3 +180,190 @@ def year_label(year: int) -> str:
     """
     year = int(year)
     return f"{1 - year} BC" if year <= 0 else str(year)
+
+
+#: English month names, January first.
+MONTH_NAMES = (
+    "January",
+    "February",
+    "March",
+    "April",
+    "May",
+    "June",
+    "July",
+    "August",
+    "September",
+    "October",
+    "November",
+    "December",
+)
+
+_MONTH_DAYS = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=np.int64)
+
+
+def is_leap_year(year: ArrayLike, calendar: Literal["julian", "gregorian"] = "gregorian") -> NDArray:
+    """True for leap years (astronomical numbering: 1 BC = year 0 is a leap year in both calendars).
+
+    >>> [bool(is_leap_year(y, "gregorian")) for y in (1900, 2000, 2024)]
+    [False, True, True]
+    >>> [bool(is_leap_year(y, "julian")) for y in (1900, 0, -4, -3199)]
+    [True, True, True, False]
+
+    References
+    ----------
+    Meeus (1998), chapter 7: every fourth year in the Julian calendar; centurial years only
+    when divisible by 400 in the Gregorian one.
+    """
+    if calendar not in ("julian", "gregorian"):
+        _check_calendar(calendar)
+        raise ValueError("is_leap_year needs calendar 'julian' or 'gregorian'")
+    y = np.asarray(year, dtype=np.int64)
+    leap = y % 4 == 0
+    if calendar == "gregorian":
+        leap = leap & ((y % 100 != 0) | (y % 400 == 0))
+    return leap[()] if leap.ndim == 0 else leap
+
+
+def calendar_of_date(year: int, month: int, day: float, calendar: Calendar = "auto") -> str:
+    """Which calendar a written date is read in: the forced one, or for ``"auto"`` Gregorian
+    from 1582 October 15 on and Julian before.
+
+    >>> calendar_of_date(1582, 10, 4), calendar_of_date(1582, 10, 15)
+    ('julian', 'gregorian')
+    """
+    _check_calendar(calendar)
+    if calendar != "auto":
+        return calendar
+    return "gregorian" if (int(year), int(month), float(day)) >= (1582, 10, 15.0) else "julian"
+
+
+def days_in_month(year: ArrayLike, month: ArrayLike, calendar: Literal["julian", "gregorian"] = "gregorian") -> NDArray:
+    """Number of days in a month (28-31).
+
+    >>> int(days_in_month(2024, 2)), int(days_in_month(1900, 2)), int(days_in_month(1900, 2, "julian"))
+    (29, 28, 29)
+    """
+    m = np.asarray(month, dtype=np.int64)
+    if np.any((m < 1) | (m > 12)):
+        from lightpath.errors import InputError
+
+        raise InputError(f"month {month!r} is outside 1..12")
+    n = _MONTH_DAYS[m - 1] + ((m == 2) & is_leap_year(year, calendar))
+    return n[()] if np.ndim(n) == 0 else n
+
+
+def validate_date(year: int, month: int, day: float, calendar: Calendar = "auto", what: str = "date") -> str:
+    """Check that a written date exists; return the calendar it is read in.
+
+    Rejects month 13, day 0, 31 April, 29 February of a common year and, with
+    ``calendar="auto"``, the ten days 1582 October 5-14 that the Gregorian reform
+    skipped.  ``what`` names the input in the one-line :class:`InputError`.
+
+    >>> validate_date(2024, 2, 29)
+    'gregorian'
+    >>> validate_date(2027, 4, 31)
+    Traceback (most recent call last):
+    ...
+    lightpath.errors.InputError: date: 2027-04-31 does not exist: April has 30 days in the gregorian calendar
+    """
+    from lightpath.errors import InputError
+
+    year, month = int(year), int(month)
+    if not 1 <= month <= 12:
+        raise InputError(f"{what}: month {month} is outside 1..12")
+    if not (np.isfinite(day) and day >= 1.0):
+        raise InputError(f"{what}: day {day:g} is outside 1..31")
+    used = calendar_of_date(year, month, day, calendar)
+    if calendar == "auto" and (year, month) == (1582, 10) and 5.0 <= day < 15.0:
+        raise InputError(
+            f"{what}: 1582-10-{int(day):02d} does not exist in the default calendar (Julian to October 4, "
+            "Gregorian from October 15); force the julian or gregorian calendar"
+        )
+    n = int(days_in_month(year, month, used))
+    if day >= n + 1:
+        raise InputError(
+            f"{what}: {_format_ymd(year, month, int(day))} does not exist: {MONTH_NAMES[month - 1]} has {n} days "
+            f"in the {used} calendar"
+        )
+    return used
+
+
+def year_from_label(text: str, what: str = "year") -> int:
+    """A written year → astronomical year: ``"3200 BC"`` → -3199, ``"AD 1200"`` / ``"1200"`` → 1200,
+    ``"-3199"`` → -3199.  There is no year "0 BC" (1 BC is followed by AD 1).
+
+    >>> year_from_label("3200 BC"), year_from_label("1 BC"), year_from_label("AD 33"), year_from_label("-44")
+    (-3199, 0, 33, -44)
+    """
+    from lightpath.errors import InputError
+
+    t = " ".join(str(text).upper().replace("B.C.", "BC").replace("A.D.", "AD").split())
+    era = None
+    for word in ("BCE", "BC", "CE", "AD"):
+        if t.endswith(" " + word) or t.startswith(word + " "):
+            era = word
+            t = t.removesuffix(" " + word).removeprefix(word + " ").strip()
+            break
+    if not (t.lstrip("+-").isdigit()):
+        raise InputError(f"{what}: {text!r} is not a year (e.g. 2027, -3199, 3200 BC, AD 33)")
+    number = int(t)
+    if era is None:
+        return number
+    if number < 1 or t.startswith(("+", "-")):
+        raise InputError(f"{what}: {text!r} has no such year; {era} years start at 1 (1 BC is followed by AD 1)")
+    return 1 - number if era in ("BC", "BCE") else number
+
+
+def _format_ymd(year: int, month: int, day: int) -> str:
+    # ISO 8601 expanded years: a sign and at least four digits before year 0.
+    y = f"{year:05d}" if year < 0 else f"{year:04d}"
+    return f"{y}-{month:02d}-{day:02d}"
+
+
+def format_date(jd: ArrayLike, calendar: Calendar = "auto"):
+    """Calendar date of a Julian day written ``YYYY-MM-DD`` with astronomical years.
+
+    The day is the civil day on the same time scale as ``jd`` (fractions are dropped).
+    Returns a ``str`` for a scalar and an array of ``str`` otherwise.
+
+    >>> format_date(julian_day(-3199, 11, 3.25)), format_date(julian_day(2027, 2, 3.6))
+    ('-3199-11-03', '2027-02-03')
+    """
+    y, m, d = calendar_date(jd, calendar)
+    if np.ndim(y) == 0:
+        return _format_ymd(int(y), int(m), int(np.floor(d)))
+    days = np.floor(d).astype(np.int64).ravel().tolist()
+    out = np.array([_format_ymd(a, b, c) for a, b, c in zip(y.ravel().tolist(), m.ravel().tolist(), days, strict=True)])
+    return out.reshape(np.shape(jd))
+
+
+def date_label(jd: float, calendar: Calendar = "auto") -> str:
+    """A date for people, with its calendar named: ``"3200 BC November 3 (Julian)"``.
+
+    >>> date_label(julian_day(-3199, 11, 3.5)), date_label(julian_day(2027, 2, 3.0))
+    ('3200 BC November 3 (Julian)', '2027 February 3 (Gregorian)')
+    """
+    y, m, d = calendar_date(float(jd), calendar)
+    used = str(calendar_for(float(jd), calendar))
+    return f"{year_label(y)} {MONTH_NAMES[m - 1]} {int(np.floor(d))} ({used.capitalize()})"
+
+
+def day_of_year(jd: ArrayLike, calendar: Calendar = "auto") -> NDArray:
+    """Day number within the calendar year, 1 on January 1 (1-365, or 366 in leap years).
+
+    With ``calendar="auto"`` the year 1582 counts the days that actually passed, so
+    October 15 is day 278.
+
+    >>> int(day_of_year(julian_day(1978, 11, 14.0))), int(day_of_year(julian_day(1988, 4, 22.5)))
+    (318, 113)
+
+    References
+    ----------
+    Meeus (1998), chapter 7, "Day of the year", Examples 7.f (1978 Nov 14 → 318) and
+    7.g (1988 Apr 22 → 113).
+    """
+    y, _, _ = calendar_date(jd, calendar)
+    start = julian_day(y, 1, 1.0, calendar)
+    n = np.floor(np.asarray(jd, dtype=np.float64) + 0.5) - np.floor(np.asarray(start) + 0.5) + 1
+    n = np.asarray(n, dtype=np.int64)
+    return n[()] if n.ndim == 0 else n
