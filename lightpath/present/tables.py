@@ -1,0 +1,213 @@
+"""The event and division tables of a scan, as rows, CSV, JSON and HTML.
+
+Every table is built from the engine's result dataclasses
+(:mod:`lightpath.light.results`) and adds nothing but formatting: UT instants
+written as calendar dates (astronomical year numbering, calendar named) and
+rounded numbers.  The same rows feed the CSV files, the JSON file and the HTML
+report, so they always agree.
+
+>>> from lightpath.light.results import DivisionLight
+>>> d = DivisionLight("solar", 0, "December solstice", 2461030.1, "2026-12-21", "2026-12-18", "2026-12-24", 7)
+>>> division_row(d, 2026)["days_lit"]
+7
+"""
+
+from __future__ import annotations
+
+import csv
+import dataclasses
+import html
+import io
+import math
+from collections.abc import Sequence
+from typing import Any
+
+import numpy as np
+
+from lightpath.light.results import DivisionLight, LightEvent, ScanResult
+from lightpath.sky.calendar import calendar_date, year_label
+
+__all__ = [
+    "DIVISION_COLUMNS",
+    "EVENT_COLUMNS",
+    "division_row",
+    "division_rows",
+    "event_row",
+    "event_rows",
+    "rows_to_csv",
+    "rows_to_html",
+    "tables_document",
+    "ut_label",
+]
+
+#: (key, heading) of each column of the event table, in order.
+EVENT_COLUMNS: tuple[tuple[str, str], ...] = (
+    ("year", "Year"),
+    ("date", "Date (local apparent day)"),
+    ("calendar", "Calendar"),
+    ("start_local_apparent", "Start (local apparent time)"),
+    ("end_local_apparent", "End (local apparent time)"),
+    ("duration_min", "Duration (min)"),
+    ("start_ut", "Start (UT)"),
+    ("peak_ut", "Peak (UT)"),
+    ("end_ut", "End (UT)"),
+    ("start_civil", "Start (civil)"),
+    ("end_civil", "End (civil)"),
+    ("peak_area_m2", "Peak lit area (m²)"),
+    ("peak_fraction", "Peak lit fraction"),
+    ("sun_azimuth_deg", "Sun azimuth at peak (°)"),
+    ("sun_altitude_deg", "Sun apparent altitude at peak (°)"),
+    ("nearest_division", "Nearest division"),
+    ("offset_days", "Days from division"),
+    ("delta_t_s", "ΔT (s)"),
+    ("delta_t_sigma_s", "ΔT σ (s)"),
+    ("ut_date_uncertain", "UT date uncertain"),
+)
+
+#: (key, heading) of each column of the division table, in order.
+DIVISION_COLUMNS: tuple[tuple[str, str], ...] = (
+    ("year", "Year"),
+    ("scheme", "Scheme"),
+    ("index", "No."),
+    ("name", "Division"),
+    ("date", "Division date"),
+    ("first_date", "First day of light"),
+    ("last_date", "Last day of light"),
+    ("days_lit", "Days with light"),
+    ("first_offset_days", "First day − division (days)"),
+    ("last_offset_days", "Last day − division (days)"),
+)
+
+
+def ut_label(jd_ut: float, calendar: str = "auto") -> str:
+    """A Julian date (UT) as ``YYYY-MM-DD HH:MM`` in astronomical year numbering, to the minute.
+
+    >>> ut_label(2451545.0)
+    '2000-01-01 12:00'
+    >>> ut_label(1507900.13)  # Meeus (1998) Table 7.a: -584 May 28.63 (Julian calendar)
+    '-0584-05-28 15:07'
+    """
+    if not math.isfinite(float(jd_ut)):
+        return ""
+    minutes = round(float(jd_ut) * 1440.0) / 1440.0  # round to the minute first, so 23:59:40 → next day
+    year, month, day = calendar_date(minutes, calendar)
+    whole = math.floor(day + 1e-9)
+    minute_of_day = round((day - whole) * 1440.0) % 1440
+    sign = "-" if year < 0 else ""
+    return f"{sign}{abs(year):04d}-{month:02d}-{whole:02d} {minute_of_day // 60:02d}:{minute_of_day % 60:02d}"
+
+
+def _round(value: float | None, digits: int) -> float | None:
+    if value is None:
+        return None
+    value = float(value)
+    return round(value, digits) if math.isfinite(value) else None
+
+
+def event_row(event: LightEvent, year: int) -> dict[str, Any]:
+    """One event as a flat dict of plain values (the keys of :data:`EVENT_COLUMNS`)."""
+    calendar = event.calendar if event.calendar in ("julian", "gregorian") else "auto"
+    return {
+        "year": int(year),
+        "date": event.date,
+        "calendar": event.calendar,
+        "start_local_apparent": event.start_local_apparent,
+        "end_local_apparent": event.end_local_apparent,
+        "duration_min": _round(event.duration_min, 1),
+        "start_ut": ut_label(event.start_jd_ut, calendar),
+        "peak_ut": ut_label(event.peak_jd_ut, calendar),
+        "end_ut": ut_label(event.end_jd_ut, calendar),
+        "start_civil": event.start_civil,
+        "end_civil": event.end_civil,
+        "peak_area_m2": _round(event.peak_area_m2, 4),
+        "peak_fraction": _round(event.peak_fraction, 3),
+        "sun_azimuth_deg": _round(event.sun_azimuth_deg, 2),
+        "sun_altitude_deg": _round(event.sun_altitude_deg, 2),
+        "nearest_division": event.nearest_division,
+        "offset_days": _round(event.offset_days, 1),
+        "delta_t_s": _round(event.delta_t_s, 0),
+        "delta_t_sigma_s": _round(event.delta_t_sigma_s, 0),
+        "ut_date_uncertain": bool(event.ut_date_uncertain),
+    }
+
+
+def division_row(division: DivisionLight, year: int) -> dict[str, Any]:
+    """One division summary as a flat dict of plain values (the keys of :data:`DIVISION_COLUMNS`)."""
+    return {
+        "year": int(year),
+        "scheme": division.scheme,
+        "index": int(division.index),
+        "name": division.name,
+        "date": division.date,
+        "first_date": division.first_date,
+        "last_date": division.last_date,
+        "days_lit": int(division.days),
+        "first_offset_days": _round(division.first_offset_days, 1),
+        "last_offset_days": _round(division.last_offset_days, 1),
+    }
+
+
+def event_rows(scan: ScanResult) -> list[dict[str, Any]]:
+    """Every event of every year of a scan, in time order."""
+    rows = [(e.start_jd_ut, event_row(e, y.year)) for y in scan.years for e in y.events]
+    return [row for _, row in sorted(rows, key=lambda pair: pair[0])]
+
+
+def division_rows(scan: ScanResult) -> list[dict[str, Any]]:
+    """Every division summary of every year of a scan, by year then division number."""
+    return [division_row(d, y.year) for y in scan.years for d in sorted(y.divisions, key=lambda d: d.index)]
+
+
+def _cell(value: Any) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, float | np.floating):
+        return f"{float(value):g}"
+    return str(value)
+
+
+def rows_to_csv(rows: Sequence[dict[str, Any]], columns: Sequence[tuple[str, str]]) -> str:
+    """Rows as CSV text (RFC 4180 quoting) with the column keys as the header line; empty cells for None.
+
+    >>> print(rows_to_csv([{"a": 1.5, "b": None}], [("a", "A"), ("b", "B")]), end="")
+    a,b
+    1.5,
+    """
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow([key for key, _ in columns])
+    for row in rows:
+        writer.writerow(["" if row.get(key) is None else row.get(key) for key, _ in columns])
+    return buffer.getvalue()
+
+
+def rows_to_html(
+    rows: Sequence[dict[str, Any]], columns: Sequence[tuple[str, str]], *, caption: str = "", table_id: str = ""
+) -> str:
+    """Rows as an HTML ``<table>`` (every value escaped), with headings and an optional caption.
+
+    >>> rows_to_html([{"a": "<b>"}], [("a", "A")])
+    '<table><thead><tr><th scope="col">A</th></tr></thead><tbody><tr><td>&lt;b&gt;</td></tr></tbody></table>'
+    """
+    attrs = f' id="{html.escape(table_id)}"' if table_id else ""
+    head = "".join(f'<th scope="col">{html.escape(title)}</th>' for _, title in columns)
+    body = "".join(
+        "<tr>" + "".join(f"<td>{html.escape(_cell(row.get(key)))}</td>" for key, _ in columns) + "</tr>" for row in rows
+    )
+    cap = f"<caption>{html.escape(caption)}</caption>" if caption else ""
+    return f"<table{attrs}>{cap}<thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
+
+
+def tables_document(scan: ScanResult) -> dict[str, Any]:
+    """The tables and the settings they came from, as one JSON-ready dict."""
+    return {
+        "scene": scan.scene,
+        "years": [{"year": y.year, "label": year_label(y.year), "calendar": y.calendar} for y in scan.years],
+        "settings": dataclasses.asdict(scan.settings),
+        "target_area_m2": _round(scan.target_area_m2, 6),
+        "events": event_rows(scan),
+        "divisions": division_rows(scan),
+        "notes": list(scan.notes) + [n for y in scan.years for n in y.notes],
+    }

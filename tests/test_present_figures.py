@@ -1,0 +1,118 @@
+"""The figures exist, are non-empty, carry their axis labels and mark the division dates."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from test_present_fixture import LONGITUDE_DEG, TARGET_AREA_M2, make_ancient_year, make_scan
+
+from lightpath.errors import InputError
+from lightpath.light.results import ScanResult
+from lightpath.present.figures import day_of_year, epoch_drift_figure, figure_bytes, light_calendar_figure, save_figure
+from lightpath.present.window_figures import flatten_target, light_patch_figure, sky_window_figure
+
+
+def _texts(ax):
+    return [t.get_text() for t in ax.texts]
+
+
+def test_light_calendar_labels_and_division_marks(tmp_path):
+    year = make_scan().years[0]
+    fig = light_calendar_figure(year, longitude_deg=LONGITUDE_DEG, target_area_m2=TARGET_AREA_M2)
+    ax = fig.axes[0]
+    assert ax.get_xlabel() == "Day of the year (1 = 1 January, Gregorian calendar)"
+    assert ax.get_ylabel() == "Local apparent solar time (h)"
+    assert fig.axes[1].get_ylabel() == "Lit fraction of the target"
+    assert set(_texts(ax)) == {"March equinox", "June solstice", "September equinox", "December solstice"}
+    # The December solstice line sits on day 355 (2026-12-21 is day 355 of a common year).
+    xs = sorted(line.get_xdata()[0] for line in ax.get_lines())
+    assert xs[-1] == pytest.approx(355.0)
+    # The y range hugs the lit minutes (08:50–09:07 local apparent time) with an hour either side.
+    low, high = ax.get_ylim()
+    assert low == pytest.approx(530 / 60 - 1) and high == pytest.approx(545 / 60 + 1)
+    png = save_figure(fig, tmp_path / "calendar.png")
+    svg = save_figure(fig, tmp_path / "calendar.svg")
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n" and png.stat().st_size > 10_000
+    assert b"<svg" in svg.read_bytes()[:2000]
+
+
+def test_light_calendar_lit_cells_fall_on_the_lit_days():
+    year = make_scan().years[0]
+    doy = day_of_year(year.light_map.day_jd_ut, 2026, "gregorian", LONGITUDE_DEG)
+    assert doy[0] == 1 and doy[-1] == 365
+    lit_doy = doy[year.light_map.area_m2.max(axis=1) > 0]
+    assert lit_doy.tolist() == list(range(352, 359))  # December 18..24
+
+
+def test_light_calendar_needs_a_light_map():
+    with pytest.raises(InputError, match="light map"):
+        light_calendar_figure(make_ancient_year(), longitude_deg=0.0)
+
+
+def test_epoch_drift_plots_first_and_last_day_per_year():
+    scan = make_scan(with_ancient=True)
+    fig = epoch_drift_figure(scan)
+    ax = fig.axes[0]
+    assert ax.get_ylabel() == "Days from the division (days)"
+    assert ax.get_xlabel().startswith("Year")
+    labels = [line.get_label() for line in ax.get_lines()]
+    assert "December solstice: first day" in labels and "December solstice: last day" in labels
+    first = next(line for line in ax.get_lines() if line.get_label() == "December solstice: first day")
+    assert first.get_xdata().tolist() == [-3199.0, 2026.0]
+    assert first.get_ydata().tolist() == [-4.4, -3.65]
+    assert "division day" in _texts(ax)
+    # Year labels for people: astronomical -3199 is 3200 BC.
+    assert ax.xaxis.get_major_formatter()(-3199, 0) == "3200 BC"
+    with pytest.raises(InputError, match="no division named"):
+        epoch_drift_figure(scan, divisions=["Midsummer"])
+
+
+def test_epoch_drift_without_light_says_so():
+    empty = ScanResult("x", make_scan().settings, 1.0, [make_scan().years[0].__class__(2026, "gregorian", "s", [], [])])
+    fig = epoch_drift_figure(empty)
+    assert "no light near any division" in " ".join(_texts(fig.axes[0]))
+
+
+def test_sky_window_chart_across_north():
+    t = np.linspace(0, 2 * np.pi, 50)
+    outline = ((355.0 + 8 * np.cos(t)) % 360.0, 10.0 + 4 * np.sin(t))  # a window straddling north
+    horizon = (np.arange(0.0, 360.0, 5.0), 1.0 + 0.5 * np.sin(np.radians(np.arange(0.0, 360.0, 5.0))))
+    track = ("June solstice", np.linspace(330.0, 390.0, 61) % 360.0, np.linspace(5.0, 15.0, 61))
+    fig = sky_window_figure([outline], horizon=horizon, sun_tracks=[track])
+    ax = fig.axes[0]
+    assert ax.get_xlabel() == "Azimuth (degrees from true north, clockwise)"
+    assert ax.get_ylabel() == "Altitude (degrees)"
+    low, high = ax.get_xlim()
+    assert high - low == pytest.approx(16.0 + 30.0, abs=0.5)  # 16° window + 15° margins, not 360°
+    labels = [line.get_label() for line in ax.get_lines()]
+    assert "Sun, June solstice" in labels and "horizon profile" in labels
+    sun = next(line for line in ax.get_lines() if line.get_label() == "Sun, June solstice")
+    assert np.nanmax(np.abs(np.diff(sun.get_xdata()))) < 2.0  # no line drawn across the wrap
+    assert len(figure_bytes(fig)) > 5_000
+
+
+def test_flatten_target_recovers_a_tilted_rectangle():
+    rng = np.random.default_rng(3)  # random-number-generator seed
+    uv_true = rng.uniform([-1.0, -0.25], [1.0, 0.25], size=(300, 2))
+    e1 = np.array([1.0, 1.0, 0.0]) / np.sqrt(2)
+    e2 = np.array([0.0, 0.0, 1.0])
+    pts = uv_true[:, :1] * e1 + uv_true[:, 1:] * e2 + np.array([10.0, 5.0, 2.0])
+    uv = flatten_target(pts)
+    # The points lie in one plane, so laying them flat keeps every distance between them (a rigid map).
+    d3 = np.linalg.norm(pts[:, None, :] - pts[None, :, :], axis=-1)
+    d2 = np.linalg.norm(uv[:, None, :] - uv[None, :, :], axis=-1)
+    np.testing.assert_allclose(d2, d3, atol=1e-9)
+    # The long side comes first.
+    assert np.ptp(uv[:, 0]) > 3 * np.ptp(uv[:, 1])
+
+
+def test_light_patch_strip_has_one_frame_per_instant():
+    gx, gz = np.meshgrid(np.linspace(0, 1, 20), np.linspace(0, 0.5, 10))
+    pts = np.column_stack([gx.ravel(), np.zeros(gx.size), gz.ravel()])
+    lit = np.stack([pts[:, 0] < f for f in (0.2, 0.5, 0.8)])
+    fig = light_patch_figure(pts, lit, ["08:50", "08:58", "09:05"])
+    frames = [ax for ax in fig.axes if ax.axison]
+    assert [ax.get_title() for ax in frames] == ["08:50 — 20% lit", "08:58 — 50% lit", "09:05 — 80% lit"]
+    assert frames[0].get_xlabel() == "Along the target (m)" and frames[0].get_ylabel() == "Across the target (m)"
+    with pytest.raises(InputError, match="do not match"):
+        light_patch_figure(pts, lit, ["a", "b"])
