@@ -209,21 +209,36 @@ def format_time_of_day(fraction_of_day: ArrayLike, seconds: bool = False):
     return np.array(flat).reshape(f.shape)
 
 
-def format_instant(jd: float, calendar: Calendar = "auto", seconds: bool = True) -> str:
-    """A Julian date → ``"YYYY-MM-DDTHH:MM:SS"`` (astronomical year), rounded to the second (or minute).
+def format_instant(jd: ArrayLike, calendar: Calendar = "auto", seconds: bool = True):
+    """Julian date(s) → ``"YYYY-MM-DDTHH:MM:SS"`` (astronomical year), rounded to the second (or minute).
 
-    The scale is that of ``jd``; the caller says which (UT, TT, LAT).
+    The scale is that of ``jd``; the caller says which (UT, TT, LAT).  Returns a ``str``
+    for a scalar and an array of ``str`` otherwise.
 
     >>> format_instant(2451545.0), format_instant(2451545.0 - 1e-7, seconds=False)
     ('2000-01-01T12:00:00', '2000-01-01T12:00')
+    >>> format_instant([0.0, 2451544.5 - 0.4 / 86400]).tolist()
+    ['-4712-01-01T12:00:00', '2000-01-01T00:00:00']
     """
-    unit = 86400.0 if seconds else 1440.0
+    x = np.asarray(jd, dtype=np.float64)
+    unit = 86400 if seconds else 1440
     # Round first, on whole units counted from midnight, so 23:59:59.7 becomes the next day's 00:00:00.
-    jd0 = math.floor(float(jd) + 0.5) - 0.5
-    units = round((float(jd) - jd0) * unit)
-    y, m, d = calendar_date(jd0 + units / unit + 1e-9, calendar)
-    t = format_time_of_day((units % int(unit)) / unit, seconds=seconds)
-    return f"{_format_ymd(int(y), int(m), int(math.floor(d)))}T{t}"
+    jd0 = np.floor(x + 0.5) - 0.5
+    units = np.round((x - jd0) * unit).astype(np.int64)
+    carry = units >= unit
+    jd0 = jd0 + carry
+    units = units - carry * unit
+    y, m, d = calendar_date(np.atleast_1d(jd0 + 0.5), calendar)  # noon of the civil day: no rounding doubt
+    clock = np.atleast_1d(format_time_of_day(units / unit, seconds=seconds))
+    flat = [
+        f"{_format_ymd(a, b, int(c))}T{t}"
+        for a, b, c, t in zip(
+            y.ravel().tolist(), m.ravel().tolist(), np.floor(d).ravel().tolist(), clock.ravel().tolist(), strict=True
+        )
+    ]
+    if x.ndim == 0:
+        return flat[0]
+    return np.array(flat).reshape(x.shape)
 
 
 def _wrap_hours(h: NDArray) -> NDArray:
