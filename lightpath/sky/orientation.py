@@ -1,0 +1,188 @@
+"""Earth orientation valid over ±10,000 years: long-term precession, nutation, Earth rotation.
+
+* Precession: Vondrák, Capitaine & Wallace (2011) long-term expressions, through
+  ERFA (``erfa.ltp``, ``erfa.ltpb``, ``erfa.ltecm``, ``erfa.ltpecl``,
+  ``erfa.ltpequ``), valid for ±200,000 years about J2000.  The IAU 2006
+  polynomials drift from them by about 12″ at 3000 BC and over 15′ at 10,000 BC.
+* Nutation: IAU 2000B (McCarthy & Luzum 2003, ``erfa.nut00b``), good to 1 mas
+  over 1995–2050; its luni-solar series is used unchanged at every epoch (the
+  fundamental arguments are polynomials in time, whose error far back is below
+  a few arcseconds of nutation phase — negligible next to ΔT).
+* Mean obliquity of date: the angle between the long-term ecliptic pole and the
+  long-term equator pole (Vondrák et al. 2011), so ecliptic and equator agree
+  with the precession used.
+* Earth rotation: Greenwich apparent sidereal time from ``erfa.gst06`` with our
+  long-term bias-precession-nutation matrix, i.e. the Earth rotation angle of
+  UT1 minus the equation of the origins; the CIO locator ``s`` is the IAU 2006
+  series (``erfa.s06``).  Far back that series parts from a kinematically
+  integrated CIO by ~1.5′ of rotation at 1750 BC and ~11′ at 3000 BC, i.e. under
+  one minute of UT, far inside the uncertainty of ΔT there.
+* Polar motion is ignored (< 0.5″).
+
+All angles are degrees at the public boundary unless a name says ``_rad``.
+Instants are Julian dates of TT (``jd_tt``) or UT1 (``jd_ut``).
+
+>>> round(float(mean_obliquity_deg(2451545.0)), 6)
+23.439279
+>>> m = bias_precession_nutation_matrix(np.array([2451545.0, 2460000.0]))
+>>> m.shape
+(2, 3, 3)
+
+References
+----------
+Vondrák, J., Capitaine, N., & Wallace, P. (2011). New precession expressions,
+valid for long time intervals. *Astronomy & Astrophysics* 534, A22 (erratum
+2012, A&A 541, C1).
+
+McCarthy, D. D., & Luzum, B. J. (2003). An abridged model of the precession-
+nutation of the celestial pole. *Celestial Mechanics and Dynamical Astronomy* 85, 37–49.
+
+Capitaine, N., & Wallace, P. T. (2006). High precision methods for locating
+the celestial intermediate pole and origin. *A&A* 450, 855–872 (``s06``, ``eors``).
+
+Petit, G., & Luzum, B. (eds.) (2010). *IERS Conventions (2010)*, IERS
+Technical Note 36, chapter 5 (Earth rotation angle, eq. 5.15).
+"""
+
+from __future__ import annotations
+
+import erfa
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+__all__ = [
+    "bias_precession_matrix",
+    "bias_precession_nutation_matrix",
+    "earth_rotation_angle_deg",
+    "ecliptic_matrix",
+    "equation_of_origins_deg",
+    "greenwich_apparent_sidereal_time_deg",
+    "julian_epoch",
+    "mean_obliquity_deg",
+    "nutation_iau2000b_deg",
+    "precession_matrix",
+    "true_obliquity_deg",
+]
+
+_RAD_DEG = 180.0 / np.pi
+
+
+def _jd(jd: ArrayLike) -> NDArray:
+    return np.asarray(jd, dtype=float)
+
+
+def julian_epoch(jd_tt: ArrayLike) -> NDArray:
+    """Julian epoch (years of 365.25 days from J2000.0, plus 2000) of a TT Julian date.
+
+    >>> float(julian_epoch(2451545.0))
+    2000.0
+    """
+    return erfa.epj(_jd(jd_tt), 0.0)
+
+
+def precession_matrix(jd_tt: ArrayLike) -> NDArray:
+    """Long-term precession matrix, J2000 mean equator and equinox → mean of date, shape (..., 3, 3).
+
+    Vondrák, Capitaine & Wallace (2011), via ``erfa.ltp``; ``v_date = P @ v_j2000``.
+    """
+    return erfa.ltp(julian_epoch(jd_tt))
+
+
+def bias_precession_matrix(jd_tt: ArrayLike) -> NDArray:
+    """Frame bias and long-term precession, GCRS → mean equator and equinox of date, shape (..., 3, 3).
+
+    Vondrák et al. (2011) with the IAU 2006 frame bias, via ``erfa.ltpb``.
+    """
+    return erfa.ltpb(julian_epoch(jd_tt))
+
+
+def ecliptic_matrix(jd_tt: ArrayLike) -> NDArray:
+    """GCRS → mean ecliptic and equinox of date (long-term), shape (..., 3, 3).
+
+    Vondrák et al. (2011) via ``erfa.ltecm``; ``v_ecliptic = E @ v_gcrs``.
+    """
+    return erfa.ltecm(julian_epoch(jd_tt))
+
+
+def mean_obliquity_deg(jd_tt: ArrayLike) -> NDArray:
+    """Mean obliquity of the ecliptic of date, degrees: angle between the long-term poles.
+
+    Ecliptic pole from ``erfa.ltpecl`` and equator pole from ``erfa.ltpequ``
+    (Vondrák et al. 2011), both referred to the J2000 frame.  Within 0.05″ of
+    the IAU 2006 value (``erfa.obl06``) over 1800–2200.
+
+    >>> round(float(mean_obliquity_deg(2451545.0 - 5000 * 365.25)), 3)  # 3000 BC
+    24.019
+    """
+    epj = julian_epoch(jd_tt)
+    pecl = erfa.ltpecl(epj)
+    pequ = erfa.ltpequ(epj)
+    # angle between unit vectors, via atan2(|a×b|, a·b) for full precision
+    cross = np.linalg.norm(np.cross(pecl, pequ), axis=-1)
+    dot = np.sum(pecl * pequ, axis=-1)
+    return np.arctan2(cross, dot) * _RAD_DEG
+
+
+def nutation_iau2000b_deg(jd_tt: ArrayLike) -> tuple[NDArray, NDArray]:
+    """Nutation in longitude and in obliquity (Δψ, Δε), degrees, IAU 2000B.
+
+    McCarthy & Luzum (2003) via ``erfa.nut00b``.
+
+    >>> dpsi, deps = nutation_iau2000b_deg(2448908.5)  # 1992 Oct 13.0 TD
+    >>> round(float(dpsi) * 3600, 2), round(float(deps) * 3600, 2)
+    (15.91, -0.31)
+    """
+    dpsi, deps = erfa.nut00b(_jd(jd_tt), 0.0)
+    return dpsi * _RAD_DEG, deps * _RAD_DEG
+
+
+def true_obliquity_deg(jd_tt: ArrayLike) -> NDArray:
+    """True obliquity of date, degrees: long-term mean obliquity + Δε (IAU 2000B)."""
+    return mean_obliquity_deg(jd_tt) + nutation_iau2000b_deg(jd_tt)[1]
+
+
+def nutation_matrix(eps_mean_rad: ArrayLike, dpsi_rad: ArrayLike, deps_rad: ArrayLike) -> NDArray:
+    """Nutation matrix, mean of date → true of date: R1(−ε−Δε)·R3(−Δψ)·R1(ε), shape (..., 3, 3)."""
+    return erfa.numat(eps_mean_rad, dpsi_rad, deps_rad)
+
+
+def bias_precession_nutation_matrix(jd_tt: ArrayLike) -> NDArray:
+    """GCRS → true equator and equinox of date, long-term, shape (..., 3, 3).
+
+    ``N(IAU 2000B, long-term mean obliquity) @ B·P(Vondrák et al. 2011)``.
+    """
+    jd = _jd(jd_tt)
+    dpsi, deps = erfa.nut00b(jd, 0.0)
+    eps = mean_obliquity_deg(jd) / _RAD_DEG
+    return np.matmul(erfa.numat(eps, dpsi, deps), bias_precession_matrix(jd))
+
+
+def earth_rotation_angle_deg(jd_ut: ArrayLike) -> NDArray:
+    """Earth rotation angle of UT1, degrees in [0, 360).
+
+    IERS Conventions (2010) eq. 5.15, via ``erfa.era00``.
+    """
+    return erfa.era00(_jd(jd_ut), 0.0) * _RAD_DEG
+
+
+def equation_of_origins_deg(jd_tt: ArrayLike, rnpb: ArrayLike) -> NDArray:
+    """Equation of the origins (ERA − GAST), degrees, for a GCRS → true-of-date matrix ``rnpb``.
+
+    Capitaine & Wallace (2006) via ``erfa.eors`` with the IAU 2006 CIO locator ``s`` (``erfa.s06``).
+    """
+    jd = _jd(jd_tt)
+    x, y = rnpb[..., 2, 0], rnpb[..., 2, 1]
+    s = erfa.s06(jd, 0.0, x, y)
+    return erfa.eors(rnpb, s) * _RAD_DEG
+
+
+def greenwich_apparent_sidereal_time_deg(jd_ut: ArrayLike, jd_tt: ArrayLike, rnpb: ArrayLike) -> NDArray:
+    """Greenwich apparent sidereal time, degrees in [0, 360), with our long-term matrix ``rnpb``.
+
+    ``erfa.gst06(UT1, TT, rnpb)`` = ERA(UT1) − equation of the origins.
+
+    >>> jd = 2451545.0
+    >>> round(float(greenwich_apparent_sidereal_time_deg(jd, jd, bias_precession_nutation_matrix(jd))), 4)
+    280.4571
+    """
+    return erfa.gst06(_jd(jd_ut), 0.0, _jd(jd_tt), 0.0, rnpb) * _RAD_DEG

@@ -1,0 +1,185 @@
+"""Where the Sun's geocentric position comes from: a JPL kernel or the VSOP87D series.
+
+Both sources end in the same thing — the Sun's **apparent** geocentric
+position in the GCRS, in au — and share everything after it (precession,
+nutation, Earth rotation, parallax, refraction; see :mod:`lightpath.sky.sun`).
+
+* ``"jpl"``: JPL DE421 from skyfield-data (1899-07-29 … 2053-10-09), or any
+  ``.bsp`` kernel given by path, through skyfield (:mod:`lightpath.sky.jpl`).
+* ``"vsop87"``: VSOP87D for the Earth (Bretagnon & Francou 1988), geocentric by
+  reversing the heliocentric vector, annual aberration from the series' own
+  velocity (ERFA ``ab``), then from the VSOP87 mean ecliptic and equinox of date
+  to the GCRS with the long-term ecliptic matrix of Vondrák et al. (2011).
+  Heliocentric light time is left out on purpose: the Sun's motion about the
+  barycentre during the 8.3 minutes of light time and its share in the Earth's
+  barycentric velocity cancel to first order.
+* ``"auto"``: DE421 when every instant lies inside its span, else VSOP87D.
+
+Every source covers at most Julian epochs −10000 … +3000; instants outside (or
+outside a kernel's own span) raise :class:`~lightpath.errors.InputError`.
+
+>>> src = choose_source([2451545.0])
+>>> src.name
+'JPL DE421 via skyfield'
+>>> choose_source([0.0]).name  # 4713 BC
+'VSOP87D (Bretagnon & Francou 1988)'
+
+References
+----------
+Bretagnon, P., & Francou, G. (1988). *A&A* 202, 309–315 (VSOP87).
+Vondrák, J., Capitaine, N., & Wallace, P. (2011). *A&A* 534, A22.
+Urban, S. E., & Seidelmann, P. K. (eds.) (2013). *Explanatory Supplement to the
+Astronomical Almanac*, 3rd ed., eq. 7.40 (aberration, as in ERFA ``ab``).
+"""
+
+from __future__ import annotations
+
+import os
+from dataclasses import dataclass
+
+import erfa
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from lightpath.errors import InputError
+from lightpath.sky import jpl, orientation, vsop87
+from lightpath.sky.nodes import chebyshev_blocks
+
+__all__ = [
+    "LONG_TERM_SPAN_JULIAN_YEARS",
+    "SOURCES",
+    "VSOP87_NAME",
+    "VSOP87_VERIFIED_JULIAN_YEARS",
+    "SunSource",
+    "choose_source",
+    "long_term_span_jd_tt",
+    "vsop87_sun_gcrs_apparent_au",
+]
+
+#: Julian epochs (years) that any source may be asked for.
+LONG_TERM_SPAN_JULIAN_YEARS = (-10000.0, 3000.0)
+#: Julian epochs over which VSOP87D is checked here against JPL DE406 (outside: extrapolated).
+VSOP87_VERIFIED_JULIAN_YEARS = (-3000.0, 3000.0)
+#: Accepted ``source`` words besides a path to a ``.bsp`` file.
+SOURCES = ("auto", "jpl", "vsop87")
+VSOP87_NAME = "VSOP87D (Bretagnon & Francou 1988)"
+
+_C_AU_PER_DAY = erfa.DC  # speed of light, au/day
+# VSOP87 is evaluated on Chebyshev blocks for dense sets: 32-day blocks, degree 14.
+# Its fastest terms (the Earth about the Earth–Moon barycentre, 27–30 days; 2D, 15 days)
+# are held there to < 1e-6″ (measured in tests/test_sun_vsop87.py).
+_VSOP_BLOCK_DAYS = 32.0
+_VSOP_DEGREE = 14
+
+
+def long_term_span_jd_tt() -> tuple[float, float]:
+    """The span −10000.0 … +3000.0 (Julian epochs) as TT Julian dates."""
+    lo, hi = LONG_TERM_SPAN_JULIAN_YEARS
+    return float(erfa.epj2jd(lo)[0] + erfa.epj2jd(lo)[1]), float(erfa.epj2jd(hi)[0] + erfa.epj2jd(hi)[1])
+
+
+@dataclass(frozen=True)
+class SunSource:
+    """A source of the Sun's apparent geocentric position.
+
+    ``kind`` is ``"jpl"`` (with ``path`` to the kernel) or ``"vsop87"``; ``name``
+    is what results report as their ``source``.
+    """
+
+    name: str
+    kind: str
+    path: str | None = None
+
+    def gcrs_apparent_au(self, jd_tt: ArrayLike) -> NDArray:
+        """Apparent geocentric GCRS position of the Sun (au), shape ``jd_tt.shape + (3,)``."""
+        if self.kind == "jpl":
+            return jpl.sun_gcrs_apparent_au(jpl.load_kernel(self.path), jd_tt)
+        return vsop87_sun_gcrs_apparent_au(jd_tt)
+
+
+def _vsop_columns(jd: NDArray) -> NDArray:
+    """(n, 6): VSOP87D L, B, R and their rates per day at instants ``jd``."""
+    L, B, R = vsop87.earth_heliocentric_lbr(jd)
+    dL, dB, dR = vsop87.earth_heliocentric_lbr_rates(jd)
+    return np.stack([L, B, R, dL, dB, dR], axis=-1)
+
+
+def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
+    """Apparent geocentric GCRS position of the Sun (au) from VSOP87D, shape ``jd_tt.shape + (3,)``.
+
+    >>> p = vsop87_sun_gcrs_apparent_au(2451545.0)
+    >>> round(float(np.linalg.norm(p)), 6)
+    0.983328
+    """
+    jd = np.asarray(jd_tt, dtype=float)
+    cols = chebyshev_blocks(_vsop_columns, jd, _VSOP_BLOCK_DAYS, _VSOP_DEGREE)
+    L, B, R, dL, dB, dR = np.moveaxis(cols, -1, 0)
+    cl, sl, cb, sb = np.cos(L), np.sin(L), np.cos(B), np.sin(B)
+    # heliocentric Earth in the VSOP87 ecliptic of date, and its velocity (au, au/day)
+    earth = np.stack([R * cb * cl, R * cb * sl, R * sb], axis=-1)
+    vel = np.stack(
+        [
+            dR * cb * cl - R * sb * dB * cl - R * cb * sl * dL,
+            dR * cb * sl - R * sb * dB * sl + R * cb * cl * dL,
+            dR * sb + R * cb * dB,
+        ],
+        axis=-1,
+    )
+    # geometric geocentric Sun = -earth; aberration by the Earth's velocity (ERFA ab, Urban & Seidelmann eq. 7.40)
+    beta = vel / _C_AU_PER_DAY
+    bm1 = np.sqrt(1.0 - np.sum(beta**2, axis=-1))
+    direction = erfa.ab(-earth / R[..., None], beta, R, bm1)
+    apparent_ecl = direction * R[..., None]
+    # VSOP87 ecliptic of date → GCRS: transpose of the long-term ecliptic matrix (Vondrák et al. 2011)
+    ecm = orientation.ecliptic_matrix(jd)
+    return np.einsum("...ji,...j->...i", ecm, apparent_ecl)
+
+
+def _check_long_term_span(jd: NDArray) -> None:
+    lo, hi = long_term_span_jd_tt()
+    bad = np.isfinite(jd) & ((jd < lo) | (jd > hi))
+    if np.any(bad):
+        first = float(jd[bad].flat[0])
+        year = float(orientation.julian_epoch(first))
+        raise InputError(
+            f"instant JD {first:.5f} (TT, Julian epoch {year:.1f}) is outside the supported span "
+            f"of Julian epochs {LONG_TERM_SPAN_JULIAN_YEARS[0]:g}..{LONG_TERM_SPAN_JULIAN_YEARS[1]:g}"
+        )
+
+
+def choose_source(jd_tt: ArrayLike, source: str = "auto", ephemeris_path: str | None = None) -> SunSource:
+    """Pick the Sun source for a set of instants.
+
+    Parameters
+    ----------
+    jd_tt : every instant the request will ask for (TT Julian dates); ``nan`` ignored.
+    source : ``"auto"`` (DE421 when all instants lie in its span, else VSOP87D),
+        ``"jpl"`` (DE421, or ``ephemeris_path``), ``"vsop87"``, or a path to a ``.bsp``.
+    ephemeris_path : a user JPL kernel (e.g. DE440/DE441) to use instead of DE421.
+
+    Raises
+    ------
+    InputError : unknown ``source``, missing or unusable kernel file, an instant outside
+        Julian epochs −10000…+3000, or (kernel sources) outside the kernel's own span.
+    """
+    jd = np.asarray(jd_tt, dtype=float)
+    _check_long_term_span(jd)
+    if source not in SOURCES:
+        if str(source).lower().endswith(".bsp") or os.path.sep in str(source):
+            ephemeris_path, source = str(source), "jpl"
+        else:
+            raise InputError(f"source {source!r} is not one of {', '.join(SOURCES)} or a path to a .bsp kernel")
+    if source == "vsop87":
+        if ephemeris_path is not None:
+            raise InputError("--ephemeris: a kernel file was given together with source 'vsop87'; choose one")
+        return SunSource(VSOP87_NAME, "vsop87")
+    path = str(ephemeris_path) if ephemeris_path is not None else jpl.DE421_PATH
+    kernel = jpl.load_kernel(path)
+    if source == "auto" and ephemeris_path is None:
+        lo, hi = jpl.kernel_span_jd_tt(kernel)
+        finite = jd[np.isfinite(jd)]
+        margin = jpl._SPAN_MARGIN_DAYS
+        if finite.size and (finite.min() < lo + margin or finite.max() > hi - margin):
+            return SunSource(VSOP87_NAME, "vsop87")
+    jpl.check_in_kernel_span(jd, kernel, path)
+    return SunSource(jpl.kernel_label(path), "jpl", path)
