@@ -116,3 +116,29 @@ def test_light_patch_strip_has_one_frame_per_instant():
     assert frames[0].get_xlabel() == "Along the target (m)" and frames[0].get_ylabel() == "Across the target (m)"
     with pytest.raises(InputError, match="do not match"):
         light_patch_figure(pts, lit, ["a", "b"])
+
+
+def test_window_outline_of_a_tube_is_its_cone():
+    """A sample at the bottom of a straight tube sees a cone of half-angle atan(r/L) (closed form)."""
+    import trimesh
+
+    from lightpath.light.window import compute_window
+    from lightpath.present.window_figures import window_outlines
+
+    tube = trimesh.creation.cylinder(radius=0.5, height=4.0, sections=64)
+    tube.update_faces(np.abs(tube.face_normals[:, 2]) < 0.5)  # drop the end caps: an open tube
+    tube.remove_unreferenced_vertices()
+    tube.apply_transform(trimesh.transformations.rotation_matrix(np.pi / 2, [0, 1, 0]))  # axis to the east
+    tube.apply_transform(trimesh.transformations.rotation_matrix(-np.radians(5.0), [0, 1, 0]))  # raised 5°
+    axis = np.array([np.cos(np.radians(5.0)), 0.0, np.sin(np.radians(5.0))])
+    window = compute_window(tube, [-1.9 * axis], [axis], [1.0], latitude_deg=52.0, resolution_deg=0.1)
+    outlines = window_outlines(window)
+    assert len(outlines) == 1
+    az, alt = (np.radians(v) for v in outlines[0])
+    v = np.column_stack([np.sin(az) * np.cos(alt), np.cos(az) * np.cos(alt), np.sin(alt)])
+    half_angle = np.degrees(np.arccos(np.clip(v @ axis, -1, 1)))
+    # the 64-sided tube's inscribed and circumscribed radii give 7.297° and 7.306°; one cell (0.1°) of tolerance
+    np.testing.assert_allclose(half_angle, np.degrees(np.arctan(0.5 / 3.9)), atol=0.1)
+    fig = sky_window_figure(outlines)
+    low, high = fig.axes[0].get_xlim()
+    assert low < 90.0 - 7.0 and high > 90.0 + 7.0
