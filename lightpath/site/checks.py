@@ -1,0 +1,109 @@
+"""Warnings about a loaded scene: things that are probably mistakes but need not be.
+
+Each check is a pure function returning a list of one-line messages (empty when all is well).  The
+thresholds are our own choices (common practice, no published source): a chamber, shrine or room whose
+largest extent is above 150 m or below 0.3 m most likely has the wrong ``model.unit``.
+
+>>> extent_warnings(np.array([300.0, 20.0, 5.0]))[0][:44]
+'largest extent 300 m is implausible for a ch'
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from lightpath.site.frames import UNIT_TO_M
+
+__all__ = [
+    "LARGEST_PLAUSIBLE_M",
+    "SMALLEST_PLAUSIBLE_M",
+    "extent_warnings",
+    "facing_warnings",
+    "north_warnings",
+    "target_area_warnings",
+]
+
+#: Structures larger than this (largest extent, metres) get a scale warning.
+LARGEST_PLAUSIBLE_M = 150.0
+#: Structures smaller than this (largest extent, metres) get a scale warning.
+SMALLEST_PLAUSIBLE_M = 0.3
+
+
+def _unit_hint(largest_m: float, unit: str | None) -> str:
+    if unit is None or unit not in UNIT_TO_M:
+        return ""
+    options = []
+    for other, scale in UNIT_TO_M.items():
+        size = largest_m / UNIT_TO_M[unit] * scale
+        if other != unit and SMALLEST_PLAUSIBLE_M <= size <= LARGEST_PLAUSIBLE_M:
+            options.append(f"{size:.3g} m if the file is in {other}")
+    return f" (model.unit is {unit!r}; it would be " + " or ".join(options) + ")" if options else ""
+
+
+def extent_warnings(extents_m: np.ndarray, unit: str | None = None) -> list[str]:
+    """A warning when the structure's largest extent (metres) is implausible for a built chamber.
+
+    >>> extent_warnings(np.array([12.0, 3.0, 2.5]))
+    []
+    >>> "0.012 m if the file is in mm" in extent_warnings(np.array([12.0, 3.0, 2.0]) * 1000, "m")[0]
+    False
+    >>> "12 m if the file is in mm" in extent_warnings(np.array([12.0, 3.0, 2.0]) * 1000, "m")[0]
+    True
+    """
+    largest = float(np.max(extents_m)) if np.size(extents_m) else 0.0
+    if largest > LARGEST_PLAUSIBLE_M:
+        return [
+            f"largest extent {largest:.4g} m is implausible for a chamber (> {LARGEST_PLAUSIBLE_M:g} m)"
+            + _unit_hint(largest, unit)
+        ]
+    if largest < SMALLEST_PLAUSIBLE_M:
+        return [
+            f"largest extent {largest:.4g} m is implausible for a chamber (< {SMALLEST_PLAUSIBLE_M:g} m)"
+            + _unit_hint(largest, unit)
+        ]
+    return []
+
+
+def north_warnings(north_given: bool) -> list[str]:
+    """A warning when the scene does not say what the model's north axis points at.
+
+    >>> north_warnings(False)[0][:36]
+    'model.north not given: assuming the '
+    """
+    if north_given:
+        return []
+    return [
+        "model.north not given: assuming the model's north axis points to true north; "
+        "say 'true', 'magnetic' (with declination_deg) or 'grid' (with convergence_deg)"
+    ]
+
+
+def target_area_warnings(area_m2: float) -> list[str]:
+    """A warning when the target has no area (all faces degenerate).
+
+    >>> target_area_warnings(0.0)
+    ['target area is zero: its faces are degenerate (no samples can be made)']
+    """
+    if area_m2 > 0:
+        return []
+    return ["target area is zero: its faces are degenerate (no samples can be made)"]
+
+
+def facing_warnings(target, opening) -> list[str]:
+    """A warning when no part of the target faces the opening (its normals all point away from it).
+
+    ``target`` and ``opening`` are trimesh meshes in the site frame (``opening`` may be None: no check).
+    A face faces the opening when its normal has a positive component toward the opening's centroid.
+    """
+    if opening is None or len(target.faces) == 0:
+        return []
+    normals = np.asarray(target.face_normals)
+    toward = np.asarray(opening.vertices).mean(axis=0) - np.asarray(target.triangles_center)
+    facing = np.einsum("ij,ij->i", normals, toward) > 0
+    area = np.asarray(target.area_faces)
+    if np.sum(area[facing]) > 0:
+        return []
+    return [
+        "the target faces away from every opening (all its normals point away from the opening); "
+        "set target.flip_normals = true if the file's winding is reversed"
+    ]

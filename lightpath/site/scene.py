@@ -1,0 +1,336 @@
+"""Scene files: a TOML description of a site, its mesh, target, opening, horizon and air → :class:`Scene`.
+
+The format is documented key by key in ``docs/scene-format.md``.  A minimal file::
+
+    [site]
+    latitude_deg = 53.2
+    longitude_deg = -7.4
+
+    [model]
+    file = "chamber.obj"     # relative to this file
+    unit = "m"
+    up_axis = "z"
+    north = "true"
+
+    [target]
+    groups = ["backstone"]
+
+Everything comes out in the site frame (East-North-Up metres).  ``Scene.mesh`` holds all geometry that
+blocks light (the target included); the opening — the surface light passes through, e.g. a pane across a
+slot — never blocks light: faces selected as the opening by name are taken out of ``Scene.mesh``.
+
+>>> from lightpath.site.scene import demo_scene_path
+>>> scene = load_scene(demo_scene_path("passage"))
+>>> scene.observer.latitude_deg > 50 and scene.opening is not None and scene.report.target_area_m2 > 0
+True
+"""
+
+from __future__ import annotations
+
+import hashlib
+import os
+import tomllib
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from lightpath.errors import InputError
+from lightpath.site import checks
+from lightpath.site.frames import AXES, NORTH_REFERENCES, UNIT_TO_M, apply_transform, model_to_site_matrix
+from lightpath.site.meshes import LabeledMesh, read_mesh
+from lightpath.site.report import LoadReport, load_report
+from lightpath.site.scene_keys import TOLERANCE_KEYS, check_keys, choice, names, number, text, vector3
+from lightpath.site.targets import box_mesh, faces_in_box, select_by_name, submesh
+from lightpath.site.terrain import horizon_from_terrain
+from lightpath.sky.horizon import HorizonProfile, flat_horizon, horizon_dip_deg, read_horizon_csv
+from lightpath.sky.observer import REFRACTION_MODELS, Observer
+
+__all__ = ["Scene", "load_scene", "demo_scene_path", "DEMO_SITES", "standard_pressure_mbar"]
+
+#: Demo sites shipped in ``lightpath/demo_models/`` (folder name → scene file).
+DEMO_SITES = {"passage": "passage/scene.toml", "shrine": "shrine/scene.toml", "window": "window/scene.toml"}
+
+_HASH_VERSION = b"lightpath-scene-geometry-1"
+
+
+@dataclass(frozen=True, eq=False)
+class Scene:
+    """A loaded scene, everything in the site frame (ENU metres). See the module docstring."""
+
+    path: Path
+    label: str
+    observer: Observer
+    mesh: object  # trimesh.Trimesh: all blocking geometry, target included, opening not
+    target: object  # trimesh.Trimesh
+    opening: object | None  # trimesh.Trimesh or None
+    horizon: HorizonProfile
+    tolerances: dict[str, float]
+    report: LoadReport
+    warnings: list[str] = field(default_factory=list)
+    content_hash: str = ""
+
+
+def demo_scene_path(name: str) -> Path:
+    """Path of a bundled demo scene: ``"passage"``, ``"shrine"`` or ``"window"``."""
+    if name not in DEMO_SITES:
+        raise InputError(f"demo site {name!r} is not one of {', '.join(DEMO_SITES)}")
+    return Path(__file__).resolve().parent.parent / "demo_models" / DEMO_SITES[name]
+
+
+def standard_pressure_mbar(elevation_m: float) -> float:
+    """Air pressure of the ICAO standard atmosphere at ``elevation_m`` metres, mbar.
+
+    p = 1013.25 (1 − 2.25577e-5 h)^5.25588 (ICAO 1993, Manual of the ICAO Standard Atmosphere, Doc 7488/3,
+    troposphere; constants from memory).
+
+    >>> round(standard_pressure_mbar(1000.0), 1)
+    898.7
+    """
+    return 1013.25 * (1.0 - 2.25577e-5 * float(elevation_m)) ** 5.25588  # ICAO (1993) troposphere
+
+
+def _read_toml(path: Path) -> dict:
+    try:
+        with path.open("rb") as handle:
+            return tomllib.load(handle)
+    except FileNotFoundError:
+        raise InputError(f"{path}: scene file not found") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{path}: not valid TOML ({exc})") from None
+    except OSError as exc:
+        raise InputError(f"{path}: scene file cannot be read ({exc.strerror or type(exc).__name__})") from None
+
+
+def _selection_form(table: dict, name: str, where: str) -> str:
+    forms = [
+        f
+        for f, keys in (("names", ("groups", "objects", "materials")), ("file", ("file",)))
+        if any(k in table for k in keys)
+    ]
+    if "box_min_m" in table or "box_max_m" in table:
+        forms.append("box")
+    if len(forms) != 1:
+        raise InputError(
+            f"{where}: [{name}] needs exactly one of: groups/objects/materials, file, or box_min_m + box_max_m"
+            + (f" (found {' and '.join(forms)})" if forms else "")
+        )
+    return forms[0]
+
+
+def _wanted_names(table: dict, name: str, where: str) -> dict[str, list[str]]:
+    wanted = {}
+    for key, kind in (("groups", "group"), ("objects", "object"), ("materials", "material")):
+        got = names(table, f"{name}.{key}", where)
+        if got:
+            wanted[kind] = got
+    return wanted
+
+
+def _box(table: dict, name: str, where: str):
+    lo = vector3(table, f"{name}.box_min_m", where)
+    hi = vector3(table, f"{name}.box_max_m", where)
+    if lo is None or hi is None:
+        raise InputError(f"{where}: [{name}] a box needs both box_min_m and box_max_m")
+    if not all(a < b for a, b in zip(lo, hi, strict=True)):
+        raise InputError(f"{where}: [{name}] box_min_m must be below box_max_m in every coordinate")
+    return lo, hi
+
+
+def _hash_geometry(*meshes) -> str:
+    digest = hashlib.sha256(_HASH_VERSION)
+    for m in meshes:
+        if m is None:
+            digest.update(b"none")
+            continue
+        digest.update(np.ascontiguousarray(m.vertices, dtype=np.float64).tobytes())
+        digest.update(np.ascontiguousarray(m.faces, dtype=np.int64).tobytes())
+    return digest.hexdigest()
+
+
+def load_scene(path: str | os.PathLike) -> Scene:
+    """Read a scene file and everything it names; return a :class:`Scene` in the site frame.
+
+    Raises :class:`~lightpath.errors.InputError` (one line naming file and key) for any bad input.
+    """
+    import trimesh
+
+    path = Path(path)
+    where = str(path)
+    data = _read_toml(path)
+    check_keys(data, where)
+    base = path.parent
+    site, model_t = data["site"], data["model"]
+    target_t, opening_t = data["target"], data.get("opening")
+    horizon_t, air_t = data.get("horizon", {}), data.get("atmosphere", {})
+    warnings: list[str] = []
+
+    # --- site and air -------------------------------------------------------------------------------------
+    lat = number(site, "site.latitude_deg", where, low=-90.0, high=90.0)
+    lon = number(site, "site.longitude_deg", where, low=-180.0, high=180.0)
+    elevation = number(site, "site.elevation_m", where, 0.0, -500.0, 9000.0)
+    timezone = text(site, "site.timezone", where)
+    if timezone is not None:
+        import zoneinfo
+
+        try:
+            zoneinfo.ZoneInfo(timezone)
+        except (zoneinfo.ZoneInfoNotFoundError, ValueError):
+            raise InputError(f"{where}: 'site.timezone' = {timezone!r} is not an IANA time zone name") from None
+    label = text(site, "site.label", where, path.stem)
+    temperature = number(air_t, "atmosphere.temperature_c", where, 10.0, -90.0, 60.0)
+    pressure = number(air_t, "atmosphere.pressure_mbar", where, None, 0.0, 1100.0)
+    if pressure is None:
+        pressure = round(standard_pressure_mbar(elevation), 2)
+    refraction = choice(air_t, "atmosphere.refraction", where, (*REFRACTION_MODELS, "none"), "bennett1982")
+    observer = Observer(
+        lat, lon, elevation, temperature, pressure, None if refraction == "none" else refraction, timezone
+    )
+
+    # --- model --------------------------------------------------------------------------------------------
+    unit = choice(model_t, "model.unit", where, tuple(UNIT_TO_M))
+    up_axis = choice(model_t, "model.up_axis", where, AXES)
+    north_axis = choice(model_t, "model.north_axis", where, AXES)
+    east_axis = choice(model_t, "model.east_axis", where, AXES)
+    north = choice(model_t, "model.north", where, NORTH_REFERENCES)
+    warnings += checks.north_warnings(north is not None)
+    north = north or "true"
+    declination = number(model_t, "model.declination_deg", where, 0.0, -90.0, 90.0)
+    convergence = number(model_t, "model.convergence_deg", where, 0.0, -90.0, 90.0)
+    if north != "magnetic" and "declination_deg" in model_t:
+        raise InputError(f"{where}: 'model.declination_deg' is given but model.north is {north!r}, not 'magnetic'")
+    if north != "grid" and "convergence_deg" in model_t:
+        raise InputError(f"{where}: 'model.convergence_deg' is given but model.north is {north!r}, not 'grid'")
+    if north == "magnetic" and "declination_deg" not in model_t:
+        raise InputError(f"{where}: missing key 'model.declination_deg' (model.north is 'magnetic'; east positive)")
+    if north == "grid" and "convergence_deg" not in model_t:
+        raise InputError(f"{where}: missing key 'model.convergence_deg' (model.north is 'grid')")
+    transform = model_to_site_matrix(
+        unit,
+        up_axis=up_axis,
+        north_axis=north_axis,
+        east_axis=east_axis,
+        north=north,
+        declination_deg=declination,
+        convergence_deg=convergence,
+        rotation_deg=number(model_t, "model.rotation_deg", where, 0.0, -360.0, 360.0),
+        offset_m=vector3(model_t, "model.offset_m", where, [0.0, 0.0, 0.0]),
+    )
+
+    def read_site_mesh(file_value, key: str) -> LabeledMesh:
+        if not isinstance(file_value, str) or not file_value:
+            raise InputError(f"{where}: '{key}' must be a file name in quotes")
+        raw = read_mesh(base / file_value)
+        v, f = apply_transform(raw.vertices, raw.faces, transform)
+        return LabeledMesh(v, f, raw.names, raw.path)
+
+    model = read_site_mesh(model_t["file"], "model.file")
+    files = [model.path]
+    keep = np.ones(len(model.faces), dtype=bool)  # model faces that block light
+
+    # --- opening ------------------------------------------------------------------------------------------
+    opening = None
+    opening_faces = np.empty(0, dtype=np.int64)
+    if opening_t is not None:
+        form = _selection_form(opening_t, "opening", where)
+        if form == "names":
+            opening_faces = select_by_name(model, _wanted_names(opening_t, "opening", where), f"{where}: opening")
+            opening = submesh(model.vertices, model.faces, opening_faces)
+            keep[opening_faces] = False
+        elif form == "file":
+            extra = read_site_mesh(opening_t["file"], "opening.file")
+            files.append(extra.path)
+            opening = trimesh.Trimesh(extra.vertices, extra.faces, process=False)
+        else:
+            opening = box_mesh(*_box(opening_t, "opening", where))
+        if opening_t.get("flip_normals", False):
+            opening.invert()
+
+    # --- target -------------------------------------------------------------------------------------------
+    form = _selection_form(target_t, "target", where)
+    blocking_v, blocking_f = model.vertices, model.faces[keep]
+    if form == "names":
+        target_faces = select_by_name(model, _wanted_names(target_t, "target", where), f"{where}: target")
+        if np.intersect1d(target_faces, opening_faces).size:
+            raise InputError(f"{where}: [target] and [opening] select some of the same faces")
+        target = submesh(model.vertices, model.faces, target_faces)
+    elif form == "box":
+        chosen = faces_in_box(blocking_v, blocking_f, *_box(target_t, "target", where))
+        target = submesh(blocking_v, blocking_f, chosen)
+    else:
+        extra = read_site_mesh(target_t["file"], "target.file")
+        files.append(extra.path)
+        target = trimesh.Trimesh(extra.vertices, extra.faces, process=False)
+        blocking_f = np.vstack([blocking_f, extra.faces + len(blocking_v)])
+        blocking_v = np.vstack([blocking_v, extra.vertices])
+    if len(target.faces) == 0:
+        raise InputError(f"{where}: [target] selects no faces (empty target)")
+    flip = target_t.get("flip_normals", False)
+    if not isinstance(flip, bool):
+        raise InputError(f"{where}: 'target.flip_normals' must be true or false")
+    if flip:
+        target.invert()
+    mesh = trimesh.Trimesh(blocking_v, blocking_f, process=False)
+    if len(mesh.faces) == 0:
+        raise InputError(f"{where}: nothing blocks light (the model has only the opening)")
+
+    # --- horizon ------------------------------------------------------------------------------------------
+    kind = choice(horizon_t, "horizon.kind", where, ("flat", "csv", "terrain"), "flat")
+    terrain_faces = np.empty(0, dtype=np.int64)
+    if kind == "flat":
+        dip = number(horizon_t, "horizon.dip_deg", where, None, -10.0, 10.0)
+        eye = number(horizon_t, "horizon.eye_height_m", where, None, 0.0, 9000.0)
+        if dip is not None and eye is not None:
+            raise InputError(f"{where}: [horizon] give dip_deg or eye_height_m, not both")
+        horizon = flat_horizon(float(horizon_dip_deg(eye)) if eye is not None else (dip or 0.0))
+    elif kind == "csv":
+        file_value = text(horizon_t, "horizon.file", where)
+        if not file_value:
+            raise InputError(f"{where}: missing key 'horizon.file' (horizon.kind is 'csv')")
+        horizon = read_horizon_csv(base / file_value)
+    else:
+        wanted = _wanted_names(horizon_t, "horizon", where)
+        if not wanted:
+            raise InputError(f"{where}: [horizon] kind 'terrain' needs groups, objects or materials naming the terrain")
+        terrain_faces = select_by_name(model, wanted, f"{where}: horizon")
+        if opening is not None:
+            default_from = np.asarray(opening.vertices).mean(axis=0)
+        else:
+            default_from = np.zeros(3)
+        horizon, notes = horizon_from_terrain(
+            submesh(model.vertices, model.faces, terrain_faces),
+            vector3(horizon_t, "horizon.from_m", where, default_from),
+            step_deg=number(horizon_t, "horizon.step_deg", where, 1.0, 0.01, 30.0),
+            curvature=bool(horizon_t.get("curvature", True)),
+        )
+        warnings += notes
+
+    # --- tolerances ---------------------------------------------------------------------------------------
+    tol_t = data.get("tolerances", {})
+    tolerances = {key: number(tol_t, f"tolerances.{key}", where, low=0.0) for key in TOLERANCE_KEYS if key in tol_t}
+
+    # --- checks and report --------------------------------------------------------------------------------
+    structure = np.setdiff1d(np.arange(len(model.faces)), terrain_faces)
+    extents_src = model.vertices[np.unique(model.faces[structure])] if structure.size else mesh.vertices
+    scale = checks.extent_warnings(np.ptp(extents_src, axis=0), unit)
+    warnings += scale
+    warnings += checks.target_area_warnings(float(target.area))
+    warnings += checks.facing_warnings(target, opening)
+    if opening is None:
+        warnings.append("no [opening] given: the whole sky is searched for light (slower, may miss small windows)")
+    report = load_report(
+        mesh, target, opening, files=files, transform=transform, names=model.available_names(), scale_warnings=scale
+    )
+    return Scene(
+        path=path,
+        label=label,
+        observer=observer,
+        mesh=mesh,
+        target=target,
+        opening=opening,
+        horizon=horizon,
+        tolerances=tolerances,
+        report=report,
+        warnings=warnings,
+        content_hash=_hash_geometry(mesh, target, opening),
+    )
