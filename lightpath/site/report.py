@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-__all__ = ["LoadReport", "load_report"]
+__all__ = ["LoadReport", "load_report", "scene_summary"]
 
 
 @dataclass(frozen=True)
@@ -81,3 +81,83 @@ def load_report(
         transform=np.asarray(transform, dtype=float).round(12).tolist(),
         scale_warnings=list(scale_warnings or []),
     )
+
+
+def _azalt_deg(v: np.ndarray) -> tuple[float, float]:
+    """Azimuth (from north, clockwise) and altitude of an ENU vector, degrees."""
+    e, n, u = (float(c) for c in v)
+    return float(np.degrees(np.arctan2(e, n)) % 360.0), float(np.degrees(np.arctan2(u, np.hypot(e, n))))
+
+
+def scene_summary(scene, samples=None) -> dict:
+    """A plain dict describing a loaded scene (for ``lightpath inspect`` and reports; JSON-ready).
+
+    ``samples`` is an optional :class:`~lightpath.site.sampling.TargetSamples` to describe.  Directions are
+    azimuth (degrees from true north, clockwise) and altitude (degrees above the horizontal, geometric).
+    """
+    obs = scene.observer
+    target = scene.target
+    normal_sum = np.sum(np.asarray(target.face_normals) * np.asarray(target.area_faces)[:, None], axis=0)
+    target_centre = np.average(np.asarray(target.triangles_center), axis=0, weights=np.asarray(target.area_faces))
+    out = {
+        "scene": str(scene.path),
+        "label": scene.label,
+        "site": {
+            "latitude_deg": obs.latitude_deg,
+            "longitude_deg": obs.longitude_deg,
+            "elevation_m": obs.elevation_m,
+            "timezone": obs.timezone,
+            "temperature_c": obs.temperature_c,
+            "pressure_mbar": obs.pressure_mbar,
+            "refraction": obs.refraction,
+        },
+        "frame": {
+            "axes": "east, north, up (metres, true north)",
+            "files": scene.report.files,
+            "file_to_site": scene.report.transform,
+            "names_in_file": scene.report.names,
+        },
+        "mesh": {
+            "triangles": scene.report.triangles,
+            "vertices": scene.report.vertices,
+            "extents_m": scene.report.extents_m,
+            "bounds_m": scene.report.bounds_m,
+            "watertight": scene.report.watertight,
+        },
+        "target": {
+            "triangles": scene.report.target_triangles,
+            "area_m2": scene.report.target_area_m2,
+            "centre_m": target_centre.round(4).tolist(),
+        },
+        "opening": None,
+        "horizon": scene.horizon.summary(),
+        "tolerances": scene.tolerances,
+        "warnings": list(scene.warnings),
+        "content_hash": scene.content_hash,
+    }
+    if np.linalg.norm(normal_sum) > 0:
+        az, alt = _azalt_deg(normal_sum)
+        out["target"]["mean_normal_azimuth_deg"], out["target"]["mean_normal_altitude_deg"] = (
+            round(az, 3),
+            round(alt, 3),
+        )
+    if scene.opening is not None:
+        centre = np.asarray(scene.opening.vertices).mean(axis=0)
+        az, alt = _azalt_deg(centre - target_centre)
+        out["opening"] = {
+            "triangles": scene.report.opening_triangles,
+            "area_m2": scene.report.opening_area_m2,
+            "centre_m": centre.round(4).tolist(),
+            "seen_from_target_azimuth_deg": round(az, 3),
+            "seen_from_target_altitude_deg": round(alt, 3),
+            "distance_from_target_m": round(float(np.linalg.norm(centre - target_centre)), 4),
+        }
+    if samples is not None:
+        out["samples"] = {
+            "count": len(samples),
+            "seed": samples.seed,
+            "offset_m": samples.offset_m,
+            "area_each_m2": float(samples.area_m2[0]),
+            "total_area_m2": samples.total_area_m2,
+        }
+    return out
