@@ -176,3 +176,46 @@ def test_resolve_ut_and_tt():
 def test_resolve_lat_needs_a_site():
     with pytest.raises(InputError, match="needs a site"):
         resolve_instant(parse_instant("2027-02-03T12:00 LAT"))
+
+
+def _skyfield_hour_angle_deg(jd_tt, lon):
+    """Geocentric apparent hour angle of the Sun (GAST + λ − α of date) from skyfield with JPL DE421."""
+    import skyfield_data
+    from skyfield.api import Loader
+
+    load = Loader(skyfield_data.get_skyfield_data_path())
+    ts = load.timescale(builtin=True)
+    eph = load("de421.bsp")
+    t = ts.tt_jd(jd_tt)
+    ra, _, _ = eph["earth"].at(t).observe(eph["sun"]).apparent().radec(epoch="date")
+    return t.gast * 15.0 + lon - ra.hours * 15.0
+
+
+@pytest.mark.filterwarnings("ignore:The file finals2000A.all has expired")
+@pytest.mark.parametrize("clock, hour_angle", [("08:00", -60.0), ("12:00", 0.0), ("15:30", 52.5)])
+def test_lat_resolves_to_the_suns_hour_angle_skyfield(clock, hour_angle):
+    # LAT t is when the Sun's apparent (geocentric) hour angle is (t - 12 h)·15° (Meeus 1998 ch. 28);
+    # reference: skyfield + DE421.  Tolerance 1″ of hour angle (0.07 s of time): the Sun source is good to
+    # < 1″ in 1900-2050, and skyfield's GAST and ours (ERFA ERA − EO) agree far better.
+    from lightpath.sky.observer import Observer
+
+    obs = Observer(latitude_deg=53.6947, longitude_deg=-6.4755, elevation_m=60.0)
+    jd_tt = resolve_instant(parse_instant(f"2027-02-03T{clock} LAT"), obs)
+    ha = _skyfield_hour_angle_deg(jd_tt, -6.4755)
+    assert ((ha - hour_angle + 180.0) % 360.0 - 180.0) * 3600.0 == pytest.approx(0.0, abs=1.0)
+
+
+def test_lat_vectorized_matches_scalar_and_keeps_the_date():
+    from lightpath.sky.instants import tt_from_lat
+    from lightpath.sky.observer import Observer
+
+    obs = Observer(latitude_deg=30.0, longitude_deg=170.0)
+    jd_lat = julian_day(-3199, 12, 21 + np.array([0.5, 6.0, 23.5]) / 24)
+    many = tt_from_lat(jd_lat, obs)
+    one = np.array([tt_from_lat(j, obs) for j in jd_lat])
+    np.testing.assert_allclose(many, one, rtol=0, atol=1e-9)
+    # Local apparent midnight-ish instants stay on their own local date: UT ≈ LAT - 170°/15° (± EoT).
+    from lightpath.sky.deltat import ut_from_tt
+
+    ut = ut_from_tt(many)
+    np.testing.assert_allclose(ut, jd_lat - 170.0 / 360.0, atol=20 / 1440)
