@@ -220,7 +220,10 @@ def load_scene(path: str | os.PathLike) -> Scene:
     def read_site_mesh(file_value, key: str) -> LabeledMesh:
         if not isinstance(file_value, str) or not file_value:
             raise InputError(f"{where}: '{key}' must be a file name in quotes")
-        raw = read_mesh(base / file_value)
+        try:
+            raw = read_mesh(base / file_value)
+        except InputError as exc:
+            raise InputError(f"{where}: '{key}': {exc}") from None
         v, f = apply_transform(raw.vertices, raw.faces, transform)
         return LabeledMesh(v, f, raw.names, raw.path)
 

@@ -1,0 +1,56 @@
+"""``lightpath inspect``: text and JSON output, warnings, and exit code 2 on bad input."""
+
+import json
+import subprocess
+import sys
+
+import pytest
+
+from lightpath.cli import main
+from lightpath.site.builders import window_room
+from lightpath.site.export import export_obj
+from lightpath.site.scene import demo_scene_path
+
+
+def test_text_output_on_a_demo(capsys):
+    assert main(["inspect", str(demo_scene_path("passage")), "--samples", "300"]) == 0
+    out = capsys.readouterr().out
+    for word in ("Fernmoor", "east, north, up", "target", "opening", "samples   300", "horizon", "warnings  none"):
+        assert word in out
+
+
+def test_json_output(capsys):
+    assert main(["inspect", str(demo_scene_path("window")), "--json", "--samples", "64", "--seed", "3"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["samples"]["count"] == 64 and data["samples"]["seed"] == 3
+    assert data["target"]["area_m2"] == pytest.approx(0.48, abs=1e-4)
+    assert data["site"]["timezone"] == "Europe/Madrid"
+    assert data["opening"]["seen_from_target_azimuth_deg"] == pytest.approx(94.5, abs=2.0)
+    assert len(data["content_hash"]) == 64 and data["warnings"] == []
+
+
+def test_warnings_are_printed(tmp_path, capsys):
+    export_obj(window_room(90.0, depth_m=300.0), tmp_path / "big.obj")
+    (tmp_path / "s.toml").write_text(
+        '[site]\nlatitude_deg = 10\nlongitude_deg = 10\n[model]\nfile = "big.obj"\nunit = "m"\nup_axis = "z"\n'
+        '[target]\ngroups = ["target"]\nflip_normals = true\n[opening]\ngroups = ["window"]\n'
+    )
+    assert main(["inspect", str(tmp_path / "s.toml")]) == 0
+    out = capsys.readouterr().out
+    assert "largest extent" in out and "model.north not given" in out and "faces away" in out
+
+
+def test_bad_input_exits_2_without_traceback(tmp_path):
+    (tmp_path / "s.toml").write_text('[site]\nlatitude_deg = 100\nlongitude_deg = 0\n[model]\nfile = "x.obj"\n')
+    proc = subprocess.run(
+        [sys.executable, "-m", "lightpath", "inspect", str(tmp_path / "s.toml")], capture_output=True, text=True
+    )
+    assert proc.returncode == 2
+    assert "Traceback" not in proc.stderr and "s.toml" in proc.stderr
+    assert len(proc.stderr.strip().splitlines()) == 1
+
+
+def test_missing_scene_and_bad_samples(tmp_path, capsys):
+    assert main(["inspect", str(tmp_path / "none.toml")]) == 2
+    assert "scene file not found" in capsys.readouterr().err
+    assert main(["inspect", str(demo_scene_path("shrine")), "--samples", "0"]) == 2
