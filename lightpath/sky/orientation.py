@@ -115,8 +115,9 @@ def mean_obliquity_deg(jd_tt: ArrayLike) -> NDArray:
     24.019
     """
     epj = julian_epoch(jd_tt)
-    pecl = erfa.ltpecl(epj)
-    pequ = erfa.ltpequ(epj)
+    with np.errstate(invalid="ignore"):  # nan instants give nan quietly
+        pecl = erfa.ltpecl(epj)
+        pequ = erfa.ltpequ(epj)
     # angle between unit vectors, via atan2(|a×b|, a·b) for full precision
     cross = np.linalg.norm(np.cross(pecl, pequ), axis=-1)
     dot = np.sum(pecl * pequ, axis=-1)

@@ -67,7 +67,7 @@ VSOP87_NAME = "VSOP87D (Bretagnon & Francou 1988)"
 _C_AU_PER_DAY = erfa.DC  # speed of light, au/day
 # VSOP87 is evaluated on Chebyshev blocks for dense sets: 32-day blocks, degree 14.
 # Its fastest terms (the Earth about the Earth–Moon barycentre, 27–30 days; 2D, 15 days)
-# are held there to < 1e-6″ (measured in tests/test_sun_vsop87.py).
+# are held there to < 0.001″ (measured 0.0004″ in tests/test_sun_vsop87.py).
 _VSOP_BLOCK_DAYS = 32.0
 _VSOP_DEGREE = 14
 

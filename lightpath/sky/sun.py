@@ -213,7 +213,8 @@ def sun_position(
     ra, dec, dist, lon_ecl, _ = _geocentric_angles(cols)
     dt_s, dt_sigma = _delta_t(jd, delta_t_s)
     jd_ut = jd - dt_s / _DAY_S
-    era = erfa.era00(jd_ut, 0.0)  # IERS Conventions (2010) eq. 5.15
+    with np.errstate(invalid="ignore"):  # nan instants stay nan quietly
+        era = erfa.era00(jd_ut, 0.0)  # IERS Conventions (2010) eq. 5.15
     gast = era - cols[..., 3]  # GAST = ERA − EO (ERFA gst06)
 
     lat = np.radians(observer.latitude_deg)
