@@ -1,0 +1,267 @@
+"""``lightpath year``: the year's structure at a site — quarter days, season lengths, divisions of the year.
+
+Examples (shell)::
+
+    lightpath year --site 53.69,-6.48,60 --year "3200 BC" --parts 8
+    lightpath year --site 53.69,-6.48 --year 2027 --parts 16 --scheme days --json
+    lightpath year --site 51.18,-1.83 --year -2499 --horizon skyline.csv --csv divisions.csv
+
+Dates are civil days in local mean solar time at the site (UT + longitude/15 h); see ``docs/divisions.md``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import dataclasses
+import io
+import math
+
+import numpy as np
+
+from lightpath.commands._common import add_output_options, parse_site, print_json, progress_bar
+from lightpath.errors import InputError
+from lightpath.files import write_text_atomic
+from lightpath.sky.calendar import CALENDARS, calendar_for, format_date, year_from_label, year_label
+from lightpath.sky.deltat import delta_t_sigma_s, ut_from_tt
+from lightpath.sky.divisions import ANCHORS, SCHEMES, Division, divisions
+from lightpath.sky.observer import Observer
+from lightpath.sky.seasons import (
+    QUARTER_NAMES,
+    _quarter_days_unchecked,
+    half_years,
+    quarter_days,
+    season_lengths,
+)
+
+__all__ = ["HELP", "NAME", "SOURCES", "add_arguments", "run", "year_document"]
+
+NAME = "year"
+HELP = "quarter days, season lengths and divisions of the year (four definitions) with sunrise/sunset azimuths"
+
+#: Sun position sources offered on the command line.
+SOURCES = ("auto", "jpl", "vsop87")
+
+_TIME_BASIS = "local mean solar time at the site (UT + longitude/15 h)"
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Options of ``lightpath year``."""
+    parser.add_argument("--site", required=True, metavar="LAT,LON[,ELEV_M]", help="degrees north, degrees east, metres")
+    parser.add_argument("--year", required=True, metavar="Y", help="astronomical year (-3199) or '3200 BC' / 'AD 33'")
+    parser.add_argument("--parts", type=int, default=8, metavar="N", help="number of divisions, N >= 2 (default 8)")
+    parser.add_argument("--scheme", choices=(*SCHEMES, "all"), default="all", help="definition of the divisions")
+    parser.add_argument("--anchor", choices=ANCHORS, default="december", help="solstice the days scheme counts from")
+    parser.add_argument("--horizon", metavar="FILE", help="skyline CSV with header azimuth_deg,altitude_deg")
+    parser.add_argument("--calendar", choices=CALENDARS, default="auto", help="calendar of the dates (default auto)")
+    parser.add_argument("--source", choices=SOURCES, default="auto", help="Sun position source (default auto)")
+    parser.add_argument("--temperature", type=float, default=10.0, metavar="C", help="air temperature (default 10 °C)")
+    parser.add_argument("--pressure", type=float, default=1010.0, metavar="MBAR", help="air pressure (default 1010)")
+    parser.add_argument("--no-refraction", action="store_true", help="geometric horizon crossings (no refraction)")
+    parser.add_argument("--csv", metavar="FILE", help="also write the divisions as CSV (atomically)")
+    add_output_options(parser)
+
+
+def _observer(args: argparse.Namespace) -> Observer:
+    lat, lon, elev = parse_site(args.site)
+    for option, value in (("--temperature", args.temperature), ("--pressure", args.pressure)):
+        if not math.isfinite(value):
+            raise InputError(f"{option}: {value!r} is not a finite number")
+    try:
+        return Observer(
+            latitude_deg=lat,
+            longitude_deg=lon,
+            elevation_m=elev,
+            temperature_c=float(args.temperature),
+            pressure_mbar=float(args.pressure),
+            refraction=None if args.no_refraction else "bennett1982",
+        )
+    except InputError as exc:
+        option = "--pressure" if str(exc).startswith("pressure") else "--temperature"
+        raise InputError(f"{option}: {exc}") from None
+
+
+def _year(text: str) -> int:
+    return year_from_label(text, what="--year")
+
+
+def _calendar_name(cals) -> str:
+    used = sorted({str(c) for c in cals})
+    return used[0] if len(used) == 1 else "/".join(used)
+
+
+def year_document(
+    year: int,
+    observer: Observer,
+    *,
+    parts: int = 8,
+    scheme: str = "all",
+    anchor: str = "december",
+    horizon=None,
+    calendar: str = "auto",
+    source: str = "auto",
+    progress=None,
+) -> dict:
+    """Everything ``lightpath year --json`` prints, as a dict of plain values (days, degrees).
+
+    ``progress`` (optional) is called with no argument after each scheme.
+    """
+    from lightpath.sky.sun import sun_position
+
+    schemes = list(SCHEMES) if scheme == "all" else [scheme]
+    divs: list[Division] = []
+    for name in schemes:
+        divs += divisions(
+            year, name, parts, observer=observer, horizon=horizon, source=source, anchor=anchor, calendar=calendar
+        )
+        if progress is not None:
+            progress()
+    q = quarter_days(year, source=source)
+    # the December solstice that opens the year (for YEAR_MIN it lies one year before the supported range)
+    prev_dec = float(_quarter_days_unchecked(np.array(year - 1), source).december_solstice_jd_tt)
+    names = ["december_solstice", *QUARTER_NAMES]
+    jd_tt = np.array([prev_dec] + [float(q.jd_tt(n)) for n in QUARTER_NAMES], dtype=float)
+    jd_ut = np.asarray(ut_from_tt(jd_tt), dtype=float)
+    local = jd_ut + observer.longitude_deg / 360.0
+    pos = sun_position(jd_tt, observer, source=source)
+    dates = format_date(local, calendar)
+    cals = calendar_for(local, calendar)
+    sigma = np.asarray(delta_t_sigma_s(jd_tt), dtype=float)
+    lat_h = np.asarray(pos.local_apparent_time_h, dtype=float)
+    quarter = [
+        {
+            "name": name,
+            "of_year": int(year - 1 if i == 0 else year),
+            "jd_tt": float(jd_tt[i]),
+            "jd_ut": float(jd_ut[i]),
+            "date": str(dates[i]),
+            "calendar": str(cals[i]),
+            "local_apparent_time_h": float(lat_h[i]),
+            "delta_t_sigma_s": float(sigma[i]),
+        }
+        for i, name in enumerate(names)
+    ]
+    h = half_years(year, source=source)
+    s = season_lengths(year, source=source)
+    halves = {
+        "december_to_june_days": float(h.december_to_june_days),
+        "june_to_december_days": float(h.june_to_december_days),
+    }
+    seasons = {
+        "december_to_march_days": float(s.december_to_march_days),
+        "march_to_june_days": float(s.march_to_june_days),
+        "june_to_september_days": float(s.june_to_september_days),
+        "september_to_december_days": float(s.september_to_december_days),
+    }
+    return {
+        "year": int(year),
+        "year_label": year_label(year),
+        "calendar": _calendar_name([d.calendar for d in divs] + [c["calendar"] for c in quarter]),
+        "date_time_basis": _TIME_BASIS,
+        "site": {
+            "latitude_deg": observer.latitude_deg,
+            "longitude_deg": observer.longitude_deg,
+            "elevation_m": observer.elevation_m,
+            "refraction": observer.refraction,
+            "pressure_mbar": observer.pressure_mbar,
+            "temperature_c": observer.temperature_c,
+        },
+        "horizon": "flat (altitude 0)" if horizon is None else (getattr(horizon, "source", "") or "profile"),
+        "source": q.source,
+        "parts": int(parts),
+        "anchor": anchor,
+        "quarter_days": quarter,
+        "half_years": halves,
+        "seasons_days": seasons,
+        "divisions": [dataclasses.asdict(d) for d in divs],
+    }
+
+
+def _csv_text(rows: list[dict]) -> str:
+    buf = io.StringIO()
+    fields = [f.name for f in dataclasses.fields(Division)]
+    writer = csv.DictWriter(buf, fieldnames=fields, lineterminator="\n")
+    writer.writeheader()
+    for row in rows:
+        writer.writerow({k: ("" if isinstance(v, float) and not math.isfinite(v) else v) for k, v in row.items()})
+    return buf.getvalue()
+
+
+def _fmt(value, spec: str) -> str:
+    return "—" if value is None or (isinstance(value, float) and not math.isfinite(value)) else format(value, spec)
+
+
+def _print_text(doc: dict) -> None:
+    site = doc["site"]
+    print(
+        f"Year {doc['year_label']} (astronomical {doc['year']}), site {site['latitude_deg']:g}°, "
+        f"{site['longitude_deg']:g}°E; dates: {doc['calendar']} calendar, {doc['date_time_basis']}"
+    )
+    print(f"Sun: {doc['source']}; horizon: {doc['horizon']}; refraction: {site['refraction'] or 'none'}")
+    print("\nQuarter days")
+    for q in doc["quarter_days"]:
+        lat_h = q["local_apparent_time_h"]
+        hh, mm = divmod(round(lat_h * 60.0) % 1440, 60)
+        print(
+            f"  {q['name']:<18} {q['date']}  {hh:02d}:{mm:02d} LAT  JDE {q['jd_tt']:.5f}  "
+            f"(ΔT ±{q['delta_t_sigma_s']:.0f} s)"
+        )
+    h, s = doc["half_years"], doc["seasons_days"]
+    print(
+        f"\nHalf-years: December→June {_fmt(h['december_to_june_days'], '.2f')} d, "
+        f"June→December {_fmt(h['june_to_december_days'], '.2f')} d"
+    )
+    print(
+        f"Seasons: Dec→Mar {s['december_to_march_days']:.2f} d, Mar→Jun {s['march_to_june_days']:.2f} d, "
+        f"Jun→Sep {s['june_to_september_days']:.2f} d, Sep→Dec {s['september_to_december_days']:.2f} d"
+    )
+    current = None
+    for d in doc["divisions"]:
+        if d["scheme"] != current:
+            current = d["scheme"]
+            print(f"\nDivisions, scheme {current} (N = {doc['parts']})")
+            print(
+                f"  {'#':>3} {'name':<20} {'date':<12} {'decl.°':>8} {'rise°':>8} {'gleam°':>8} {'full°':>8} "
+                f"{'set°':>8} {'part d':>7}"
+            )
+        print(
+            f"  {d['index']:>3} {d['name']:<20} {d['date']:<12} {_fmt(d['declination_deg'], '8.3f')} "
+            f"{_fmt(d['sunrise_azimuth_deg'], '8.2f')} {_fmt(d['sunrise_first_gleam_azimuth_deg'], '8.2f')} "
+            f"{_fmt(d['sunrise_full_disc_azimuth_deg'], '8.2f')} {_fmt(d['sunset_azimuth_deg'], '8.2f')} "
+            f"{_fmt(d['part_days'], '7.2f')}"
+        )
+
+
+def run(args: argparse.Namespace) -> int:
+    """Run ``lightpath year``; returns the exit code."""
+    observer = _observer(args)
+    year = _year(args.year)
+    if args.parts < 2:
+        raise InputError(f"--parts: {args.parts} must be 2 or more")
+    horizon = None
+    if args.horizon:
+        from lightpath.sky.horizon import read_horizon_csv
+
+        horizon = read_horizon_csv(args.horizon)
+    n_schemes = len(SCHEMES) if args.scheme == "all" else 1
+    with progress_bar("divisions of the year", n_schemes, quiet=args.quiet or args.json) as advance:
+        doc = year_document(
+            year,
+            observer,
+            parts=args.parts,
+            scheme=args.scheme,
+            anchor=args.anchor,
+            horizon=horizon,
+            calendar=args.calendar,
+            source=args.source,
+            progress=advance,
+        )
+    if args.csv:
+        write_text_atomic(args.csv, _csv_text(doc["divisions"]))
+    if args.json:
+        print_json(doc)
+    else:
+        _print_text(doc)
+        if args.csv and not args.quiet:
+            print(f"\nwrote {args.csv}")
+    return 0
