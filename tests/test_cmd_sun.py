@@ -91,6 +91,15 @@ def test_run_with_to_and_step(capsys):
     assert np.all(np.diff([r["altitude_geometric_deg"] for r in rows]) > 0)
 
 
+def test_long_run_ends_on_the_last_minute(capsys):
+    # ΔT drifts by tens of milliseconds over a year; the count of steps is taken in UT, as written.
+    rows = _json(
+        capsys, ["sun", "--site", SITE, "--at", "2027-01-01", "--to", "2027-12-31T23:00", "--step", "60", "--json"]
+    )
+    assert len(rows) == 365 * 24
+    assert rows[-1]["ut"] == "2027-12-31T23:00:00"
+
+
 def test_lat_instant_is_apparent_noon(capsys):
     # LAT 12:00 = the Sun on the local meridian: hour angle 0, azimuth 180° north of the tropics.
     row = _json(capsys, ["sun", "--site", SITE, "--at", "2027-02-03T12:00 LAT", "--json"])

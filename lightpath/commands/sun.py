@@ -118,7 +118,14 @@ def _instants(args: argparse.Namespace, observer: Observer, source: str) -> np.n
     if end_tt < start_tt:
         raise InputError(f"--to: {args.to!r} comes before --at {args.at!r}")
     step_days = step_min / 1440.0
-    count = math.floor((end_tt - start_tt) / step_days + 1e-9) + 1
+    # Count the steps on the scale --at is written in (ΔT drifts, so a TT span differs from a UT one).
+    if end.scale == start.scale:
+        span_days = end.jd - start.jd
+    elif start.scale == "UT":
+        span_days = float(deltat.ut_from_tt(end_tt, delta)) - start.jd
+    else:  # TT, or LAT (whose rate differs from TT's by the drift of the equation of time, < 1 min/day)
+        span_days = end_tt - start_tt
+    count = math.floor(span_days / step_days + 1e-6) + 1
     if count > MAX_ROWS:
         raise InputError(
             f"--step: {count:,} instants from --at to --to at {step_min:g} minutes; at most {MAX_ROWS:,} "
