@@ -60,7 +60,7 @@ SITES = {
         division="cross-quarter day between the June solstice and the September equinox (λ = 135°)",
         ecliptic_longitude_deg=135.0,
         event="set",
-        aim_above_horizon_deg=2.0,
+        aim_above_horizon_deg=3.2,
         horizon=lambda az: 0.6 + 2.6 * np.exp(-(((az - 290.0) / 35.0) ** 2)) + 0.3 * np.sin(np.radians(3 * az)),
     ),
     "window": dict(
@@ -141,8 +141,8 @@ def build(name: str, azimuth_deg: float):
             width_m=2.6,
             height_m=2.4,
             rock_m=2.0,
-            slit=Slot(width_m=0.08, height_m=1.5, sill_m=0.5),
-            image=(-0.45, 0.45, 0.3, 1.3),
+            slit=Slot(width_m=0.05, height_m=0.5, sill_m=1.0),
+            image=(-0.45, 0.45, 0.4, 1.0),
         )
     return window_room(
         azimuth_deg,
@@ -230,8 +230,9 @@ STORIES = {
     "the only way light could enter was a narrow slot over the entrance lintel. Around the December solstice a "
     "few minutes after sunrise a beam runs up the gently rising passage to the chamber's back stone.",
     "shrine": "A small room cut into a west-facing cliff. Its front is a two-metre thickness of rock pierced by a "
-    "slit eight centimetres wide; on the back wall a carved panel is touched by the setting Sun on the days "
-    "around the cross-quarter day that falls between the June solstice and the September equinox.",
+    "slit five centimetres wide; on the back wall a carved panel is touched by the setting Sun on the days "
+    "around the cross-quarter day that falls between the June solstice and the September equinox (and, the "
+    "Sun's declination being the same, around the one between the March equinox and the June solstice).",
     "window": "A thick-walled room with one small high window facing east. Opposite the window is a niche; "
     "in the days around the March (and September) equinox the rising Sun's light falls into it.",
 }
