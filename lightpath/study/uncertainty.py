@@ -189,33 +189,39 @@ def tolerances_from_table(table: dict | None, *, source: str = "[tolerances]", *
     return Tolerances(**values)
 
 
-_EPOCH_RE = re.compile(
-    r"^\s*(?P<year>[+-]?\d+)\s*(?P<era>BC|BCE|AD|CE)?\s*(?:(?:±|\+/-|\+-)\s*(?P<sigma>\d+(?:\.\d*)?))?\s*$",
-    re.IGNORECASE,
-)
+_SPREAD_RE = re.compile(r"±|\+/-|\+-")
 
 
 def parse_epoch(text: str, option: str = "--epoch") -> tuple[int, float]:
     """``"Y[±S]"`` → (astronomical year, σ in years).
 
-    ``Y`` is an astronomical year (``-3199``) or a year with an era (``3200 BC``, ``AD 5`` is
-    not accepted, write ``5 AD``); ``±`` may be written ``+/-`` or ``+-``.
+    ``Y`` is any year :func:`lightpath.sky.calendar.year_from_label` reads (``-3199``, ``3200 BC``,
+    ``AD 33``); ``±`` may also be written ``+/-`` or ``+-``; ``S`` is a one-sigma spread in years.
 
     >>> parse_epoch("-3199+/-100")
     (-3199, 100.0)
     >>> parse_epoch("2024")
     (2024, 0.0)
     """
-    match = _EPOCH_RE.match(str(text))
-    if not match:
-        raise InputError(f"{option}: {text!r} is not YEAR[±YEARS] (e.g. -3199, '3200 BC', '3200 BC±50', '-3199+/-50')")
-    year = int(match["year"])
-    era = (match["era"] or "").upper()
-    if era in ("BC", "BCE"):
-        if year <= 0:
-            raise InputError(f"{option}: {text!r}: a year BC must be 1 or more")
-        year = 1 - year  # 1 BC = year 0
-    sigma = float(match["sigma"]) if match["sigma"] else 0.0
+    from lightpath.sky.calendar import year_from_label
+
+    usage = f"{option}: {text!r} is not YEAR[±YEARS] (e.g. -3199, '3200 BC', '3200 BC±50', '-3199+/-50')"
+    pieces = _SPREAD_RE.split(str(text))
+    if len(pieces) > 2 or not pieces[0].strip():
+        raise InputError(usage)
+    year_text = re.sub(r"(\d)([A-Za-z])", r"\1 \2", pieces[0].strip())
+    try:
+        year = year_from_label(year_text, option)
+    except InputError:
+        raise InputError(usage) from None
+    sigma = 0.0
+    if len(pieces) == 2:
+        try:
+            sigma = float(pieces[1])
+        except ValueError:
+            raise InputError(usage) from None
+        if not (math.isfinite(sigma) and sigma >= 0):
+            raise InputError(f"{option}: spread {pieces[1].strip()!r} must be a number of years ≥ 0")
     if not -9999 <= year <= 3000:
         raise InputError(f"{option}: year {year} is outside -9999..3000 (10,000 BC to AD 3000)")
     return year, sigma
