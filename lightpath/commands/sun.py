@@ -18,7 +18,7 @@ import sys
 
 import numpy as np
 
-from lightpath.commands._common import add_output_options, parse_site, progress_bar, to_jsonable
+from lightpath.commands._common import add_output_options, parse_site, progress_bar
 from lightpath.errors import InputError
 from lightpath.sky import deltat
 from lightpath.sky.calendar import CALENDARS, calendar_for, format_date
@@ -139,6 +139,14 @@ def _instants(args: argparse.Namespace, observer: Observer, source: str) -> np.n
     return np.asarray(tt_from_lat(grid, observer, source=source, delta_t_s=delta), dtype=np.float64)
 
 
+def _plain(values: np.ndarray) -> list:
+    """Floats as a list, with nan as None (JSON null)."""
+    out = values.tolist()
+    if not np.isfinite(values).all():
+        out = [v if math.isfinite(v) else None for v in out]
+    return out
+
+
 def sun_rows(jd_tt: np.ndarray, observer: Observer, source: str, calendar: str, delta_t_s, advance=None) -> list[dict]:
     """One dict per instant with the keys ``lightpath sun --json`` prints (degrees, minutes, seconds)."""
     from lightpath.sky.sun import sun_position
@@ -170,7 +178,7 @@ def sun_rows(jd_tt: np.ndarray, observer: Observer, source: str, calendar: str, 
             "distance_au": pos.distance_au,
             "semidiameter_deg": pos.semidiameter_deg,
         }
-        columns = {k: np.broadcast_to(np.asarray(v, dtype=np.float64), part.shape).tolist() for k, v in columns.items()}
+        columns = {k: _plain(np.broadcast_to(np.asarray(v, dtype=np.float64), part.shape)) for k, v in columns.items()}
         for i in range(len(part)):
             row = {k: v[i] for k, v in columns.items()}
             row["ut"] = str(ut_text[i])
@@ -220,12 +228,12 @@ def run(args: argparse.Namespace) -> int:
         rows = sun_rows(jd_tt, observer, source, args.calendar, args.delta_t, advance)
     if args.json:
         if args.to is None:
-            json.dump(to_jsonable(rows[0]), sys.stdout, indent=2, ensure_ascii=False)
+            json.dump(rows[0], sys.stdout, indent=2, ensure_ascii=False, allow_nan=False)
             sys.stdout.write("\n")
         else:
             sys.stdout.write("[\n")
             for i, row in enumerate(rows):
-                sys.stdout.write(json.dumps(to_jsonable(row), ensure_ascii=False))
+                sys.stdout.write(json.dumps(row, ensure_ascii=False, allow_nan=False))
                 sys.stdout.write(",\n" if i + 1 < len(rows) else "\n")
             sys.stdout.write("]\n")
     else:
