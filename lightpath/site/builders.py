@@ -20,27 +20,18 @@ target is a quad 1 mm in front of the surface it stands for, normal pointing int
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 import numpy as np
 
+from lightpath.site.parts import TARGET_GAP_M, ChamberModel, Parts, Slot, check_positive, front_wall
+from lightpath.site.rooms import Niche, slit_shrine, window_room
 from lightpath.site.solids import box, local_to_site, pitch_matrix, quad, yaw_matrix
 
+#: The slot :func:`passage_chamber` builds when none is given: 0.6 m wide, 0.25 m high, under the roof.
+DEFAULT_SLOT = Slot()
+
 __all__ = ["Bend", "Chamber", "ChamberModel", "Niche", "Slot", "passage_chamber", "slit_shrine", "window_room"]
-
-_TARGET_GAP_M = 0.001  # the target quad stands 1 mm in front of its wall (no coplanar faces)
-
-
-@dataclass(frozen=True)
-class Slot:
-    """An opening in a front wall, metres: width, height, and the height of its sill above the floor.
-
-    For :func:`passage_chamber` ``sill_m=None`` puts the slot's top at the passage roof, over a lintel.
-    """
-
-    width_m: float = 0.6
-    height_m: float = 0.25
-    sill_m: float | None = None
 
 
 @dataclass(frozen=True)
@@ -65,81 +56,7 @@ class Bend:
     angle_deg: float
 
 
-@dataclass(frozen=True)
-class Niche:
-    """A recess in the back wall: width, height, depth and sill height above the floor, metres."""
-
-    width_m: float = 0.6
-    height_m: float = 0.8
-    depth_m: float = 0.4
-    sill_m: float = 0.8
-
-
-@dataclass(frozen=True, eq=False)
-class ChamberModel:
-    """A built chamber: named parts (trimesh meshes, ENU metres) and the numbers it was built from.
-
-    parts : name → mesh.  opening_parts : the names light passes through (not solid).  target_part : the
-    name of the target.  axis_azimuth_deg : outward azimuth of the opening's axis, degrees from true north.
-    local_to_site : 4×4 transform from the builder's local frame (+x inward, +z up) to ENU.
-    survey : the builder's arguments.
-    """
-
-    kind: str
-    parts: dict
-    opening_parts: tuple[str, ...]
-    target_part: str
-    axis_azimuth_deg: float
-    local_to_site: np.ndarray
-    survey: dict = field(default_factory=dict)
-
-    def blocking_mesh(self):
-        """All solid parts (target included, panes not) as one trimesh."""
-        import trimesh
-
-        solid = [m for name, m in self.parts.items() if name not in self.opening_parts]
-        return trimesh.util.concatenate(solid)
-
-    def target(self):
-        """The target quad(s)."""
-        return self.parts[self.target_part]
-
-    def opening(self):
-        """The opening pane(s) as one trimesh."""
-        import trimesh
-
-        return trimesh.util.concatenate([self.parts[n] for n in self.opening_parts])
-
-
-class _Parts:
-    """Collects meshes by part name, each moved by a 4×4 local transform."""
-
-    def __init__(self) -> None:
-        self.meshes: dict[str, list] = {}
-
-    def add(self, name: str, mesh, transform: np.ndarray | None = None) -> None:
-        if transform is not None:
-            mesh.apply_transform(transform)
-        self.meshes.setdefault(name, []).append(mesh)
-
-    def build(self, to_site: np.ndarray) -> dict:
-        import trimesh
-
-        out = {}
-        for name, meshes in self.meshes.items():
-            m = trimesh.util.concatenate(meshes)
-            m.apply_transform(to_site)
-            out[name] = m
-        return out
-
-
-def _positive(**values: float) -> None:
-    for name, value in values.items():
-        if not (isinstance(value, (int, float)) and math.isfinite(value) and value > 0):
-            raise ValueError(f"{name} must be a positive number of metres, got {value!r}")
-
-
-def _tube(parts: _Parts, x0: float, x1: float, w: float, h: float, t: float, T: np.ndarray, *, extend=(0, 0, 0, 0)):
+def _tube(parts: Parts, x0: float, x1: float, w: float, h: float, t: float, T: np.ndarray, *, extend=(0, 0, 0, 0)):
     """Floor, roof and side walls of a passage segment x∈[x0, x1] (local), moved by T.
 
     ``extend`` = (floor/roof, left wall, right wall, back) extra length past x1, for covering a bend's joint.
@@ -151,25 +68,6 @@ def _tube(parts: _Parts, x0: float, x1: float, w: float, h: float, t: float, T: 
     parts.add("walls", box((x0 - e_back * (e_right > 0), -w / 2 - t, -t), (x1 + e_right, -w / 2, h + t)), T)
 
 
-def _front_wall(parts: _Parts, w: float, h: float, t: float, t_front: float, opening, names, T=None):
-    """A front wall x∈[−t_front, 0] across a w×h cross-section with a rectangular hole.
-
-    ``opening`` = (y0, y1, z0, z1) of the hole; ``names`` = (below, above, sides) part names.  The pane goes
-    on the outer face x = −t_front, normal −x (out to the sky).
-    """
-    y0, y1, z0, z1 = opening
-    below, above, sides = names
-    W = w / 2 + t
-    if z0 > -t:
-        parts.add(below, box((-t_front, -W, -t), (0.0, W, z0)), T)
-    if z1 < h + t:
-        parts.add(above, box((-t_front, -W, z1), (0.0, W, h + t)), T)
-    parts.add(sides, box((-t_front, y1, z0 - 1e-3), (0.0, W, z1 + 1e-3)), T)
-    parts.add(sides, box((-t_front, -W, z0 - 1e-3), (0.0, y0, z1 + 1e-3)), T)
-    x = -t_front
-    return quad([(x, y0, z0), (x, y0, z1), (x, y1, z1), (x, y1, z0)], T)  # normal -x
-
-
 def passage_chamber(
     azimuth_deg: float,
     floor_slope_deg: float,
@@ -178,7 +76,7 @@ def passage_chamber(
     height_m: float,
     *,
     chamber: Chamber | None = Chamber(),
-    slot: Slot | None = Slot(),
+    slot: Slot | None = DEFAULT_SLOT,
     bend: Bend | None = None,
     wall_m: float = 0.5,
     lintel_m: float = 0.3,
@@ -193,11 +91,11 @@ def passage_chamber(
     ``bend`` turns the passage.  The ``chamber`` (or, with ``chamber=None``, an end wall) closes the far end;
     its back wall's inner face is the target.  The site origin is the entrance floor at the front face.
     """
-    _positive(length_m=length_m, width_m=width_m, height_m=height_m, wall_m=wall_m)
+    check_positive(length_m=length_m, width_m=width_m, height_m=height_m, wall_m=wall_m)
     if not -30.0 < floor_slope_deg < 30.0:
         raise ValueError(f"floor_slope_deg must be within ±30 degrees, got {floor_slope_deg!r}")
     w, h, t = float(width_m), float(height_m), float(wall_m)
-    parts = _Parts()
+    parts = Parts()
     pitch = pitch_matrix(floor_slope_deg)
     # --- passage segments ---
     if bend is None:
@@ -221,14 +119,14 @@ def passage_chamber(
     # --- entrance: door stone, lintel, slot ---
     openings = []
     if slot is not None:
-        _positive(slot_width_m=slot.width_m, slot_height_m=slot.height_m)
+        check_positive(slot_width_m=slot.width_m, slot_height_m=slot.height_m)
         z1 = h if slot.sill_m is None else slot.sill_m + slot.height_m
         z0 = z1 - slot.height_m
         door_top = z0 - lintel_m
         if door_top <= 0.2:
             raise ValueError("the slot leaves no room for a lintel and doorway; lower slot.height_m")
         sw = min(slot.width_m, w)
-        pane = _front_wall(parts, w, h, t, t, (-sw / 2, sw / 2, z0, z1), ("lintel", "walls", "walls"), pitch)
+        pane = front_wall(parts, w, h, t, t, (-sw / 2, sw / 2, z0, z1), ("lintel", "walls", "walls"), pitch)
         parts.add("slot", pane)
         openings.append("slot")
         if door_closed:
@@ -254,7 +152,7 @@ def passage_chamber(
             max(chamber.width_m, w),
             max(chamber.height_m, h / math.cos(math.radians(floor_slope_deg))),
         )
-        _positive(chamber_depth_m=d)
+        check_positive(chamber_depth_m=d)
         W = cw / 2 + t
         parts.add("floor", box((-t, -W, -t), (d + t, W, 0.0)), room)
         parts.add("roof", box((-t, -W, ch), (d + t, W, ch + t)), room)
@@ -266,13 +164,13 @@ def passage_chamber(
         parts.add("walls", box((-t, -W, -t), (0.0, -w / 2, ch + t)), room)
         if hole_top < ch:
             parts.add("walls", box((-t, -w / 2 - 1e-3, hole_top), (0.0, w / 2 + 1e-3, ch + t)), room)
-        x = d - _TARGET_GAP_M
+        x = d - TARGET_GAP_M
         y0, y1, z0, z1 = chamber.backstone or (-cw / 2, cw / 2, 0.0, ch)
         target = quad([(x, y0, z0), (x, y0, z1), (x, y1, z1), (x, y1, z0)], room)  # normal -x
     else:
         d = -0.5 * t  # the end wall straddles the tube's (tilted) end
         parts.add("walls", box((d, -w / 2 - t, -t), (d + t, w / 2 + t, h + t)), room)
-        x = d - _TARGET_GAP_M
+        x = d - TARGET_GAP_M
         target = quad([(x, -w / 2, 0.0), (x, -w / 2, h), (x, w / 2, h), (x, w / 2, 0.0)], room)  # normal -x
     parts.add("target", target)
     to_site = local_to_site(azimuth_deg)
@@ -291,157 +189,4 @@ def passage_chamber(
     )
     return ChamberModel(
         "passage_chamber", parts.build(to_site), tuple(openings), "target", azimuth_deg, to_site, survey
-    )
-
-
-def _room(
-    kind: str,
-    azimuth_deg: float,
-    depth_m: float,
-    width_m: float,
-    height_m: float,
-    front_wall_m: float,
-    wall_m: float,
-    opening: Slot,
-    opening_name: str,
-    wall_name: str,
-    niche: Niche | None,
-    target: tuple[float, float, float, float] | None,
-    survey: dict,
-) -> ChamberModel:
-    d, w, h, t, tf = float(depth_m), float(width_m), float(height_m), float(wall_m), float(front_wall_m)
-    _positive(depth_m=d, width_m=w, height_m=h, wall_m=t, front_wall_m=tf)
-    _positive(opening_width_m=opening.width_m, opening_height_m=opening.height_m)
-    sill = 0.0 if opening.sill_m is None else float(opening.sill_m)
-    if opening.width_m >= w or sill + opening.height_m > h:
-        raise ValueError(f"the {opening_name} does not fit in the front wall")
-    parts = _Parts()
-    W = w / 2 + t
-    parts.add("floor", box((-tf, -W, -t), (d + t, W, 0.0)))
-    parts.add("roof", box((-tf, -W, h), (d + t, W, h + t)))
-    parts.add(wall_name, box((-tf, w / 2, -t), (d + t, W, h + t)))
-    parts.add(wall_name, box((-tf, -W, -t), (d + t, -w / 2, h + t)))
-    y = opening.width_m / 2
-    pane = _front_wall(parts, w, h, t, tf, (-y, y, sill, sill + opening.height_m), (wall_name, wall_name, wall_name))
-    parts.add(opening_name, pane)
-    if niche is None:
-        parts.add(wall_name, box((d, -W, -t), (d + t, W, h + t)))
-        y0, y1, z0, z1 = target
-        x = d - _TARGET_GAP_M
-    else:
-        _positive(niche_width_m=niche.width_m, niche_height_m=niche.height_m, niche_depth_m=niche.depth_m)
-        if niche.width_m >= w or niche.sill_m + niche.height_m > h or niche.depth_m >= t:
-            raise ValueError("the niche does not fit in the back wall (it must be shallower than wall_m)")
-        ny, z0, z1, nd = niche.width_m / 2, niche.sill_m, niche.sill_m + niche.height_m, niche.depth_m
-        parts.add(wall_name, box((d + nd, -W, -t), (d + t, W, h + t)))  # behind the niche
-        parts.add(wall_name, box((d, -W, -t), (d + nd + 1e-3, -ny, h + t)))
-        parts.add(wall_name, box((d, ny, -t), (d + nd + 1e-3, W, h + t)))
-        parts.add(wall_name, box((d, -ny - 1e-3, -t), (d + nd + 1e-3, ny + 1e-3, z0)))
-        parts.add(wall_name, box((d, -ny - 1e-3, z1), (d + nd + 1e-3, ny + 1e-3, h + t)))
-        y0, y1, x = -ny, ny, d + nd - _TARGET_GAP_M
-    parts.add("target", quad([(x, y0, z0), (x, y0, z1), (x, y1, z1), (x, y1, z0)]))  # normal -x, into the room
-    to_site = local_to_site(azimuth_deg)
-    return ChamberModel(kind, parts.build(to_site), (opening_name,), "target", azimuth_deg, to_site, survey)
-
-
-def slit_shrine(
-    azimuth_deg: float,
-    *,
-    depth_m: float = 4.0,
-    width_m: float = 2.5,
-    height_m: float = 2.2,
-    rock_m: float = 1.5,
-    slit: Slot = Slot(width_m=0.12, height_m=1.4, sill_m=0.4),
-    image: tuple[float, float, float, float] = (-0.4, 0.4, 0.2, 1.2),
-) -> ChamberModel:
-    """A rock-cut room whose front (``rock_m`` thick) has a narrow vertical slit looking out to ``azimuth_deg``.
-
-    ``image`` = (y0, y1, z0, z1), metres: the patch of the back wall that is the target (y to the left looking
-    in, z above the floor).  Part names: rock, floor, roof, slit, target.  The site origin is the floor under
-    the slit at the outer face.
-
-    >>> m = slit_shrine(290.0)
-    >>> sorted(m.parts), round(float(m.target().area), 3)
-    (['floor', 'rock', 'roof', 'slit', 'target'], 0.8)
-    """
-    survey = dict(
-        azimuth_deg=azimuth_deg,
-        depth_m=depth_m,
-        width_m=width_m,
-        height_m=height_m,
-        rock_m=rock_m,
-        slit=vars(slit),
-        image=list(image),
-    )
-    model = _room(
-        "slit_shrine",
-        azimuth_deg,
-        depth_m,
-        width_m,
-        height_m,
-        rock_m,
-        rock_m,
-        slit,
-        "slit",
-        "rock",
-        None,
-        image,
-        survey,
-    )
-    return _shift_origin(model, rock_m)
-
-
-def window_room(
-    azimuth_deg: float,
-    *,
-    depth_m: float = 6.0,
-    width_m: float = 4.0,
-    height_m: float = 3.0,
-    wall_m: float = 1.2,
-    window: Slot = Slot(width_m=0.35, height_m=0.6, sill_m=1.6),
-    niche: Niche = Niche(),
-) -> ChamberModel:
-    """A room whose ``wall_m``-thick front wall has a ``window`` looking out to ``azimuth_deg`` and whose back
-    wall has a ``niche`` (its back face is the target).  Part names: walls, floor, roof, window, target.
-
-    >>> m = window_room(95.0)
-    >>> sorted(m.parts), round(float(m.target().area), 3)
-    (['floor', 'roof', 'target', 'walls', 'window'], 0.48)
-    """
-    survey = dict(
-        azimuth_deg=azimuth_deg,
-        depth_m=depth_m,
-        width_m=width_m,
-        height_m=height_m,
-        wall_m=wall_m,
-        window=vars(window),
-        niche=vars(niche),
-    )
-    model = _room(
-        "window_room",
-        azimuth_deg,
-        depth_m,
-        width_m,
-        height_m,
-        wall_m,
-        wall_m,
-        window,
-        "window",
-        "walls",
-        niche,
-        None,
-        survey,
-    )
-    return _shift_origin(model, wall_m)
-
-
-def _shift_origin(model: ChamberModel, front_m: float) -> ChamberModel:
-    """Move the site origin from the inner face of the front wall to its outer face (at the opening)."""
-    shift = model.local_to_site[:3, :3] @ [front_m, 0.0, 0.0]
-    for mesh in model.parts.values():
-        mesh.apply_translation(shift)
-    T = model.local_to_site.copy()
-    T[:3, 3] += shift
-    return ChamberModel(
-        model.kind, model.parts, model.opening_parts, model.target_part, model.axis_azimuth_deg, T, model.survey
     )
