@@ -219,3 +219,36 @@ def test_names_on_a_format_without_names(folder, room):
     export_mesh(room, folder / "room.ply")
     with pytest.raises(InputError, match="none"):
         load_scene(write(folder, BASE.replace("room.obj", "room.ply")))
+
+
+def test_terrain_horizon_in_a_scene(tmp_path):
+    """A ridge 400 m east, 30 m high, in the model's 'hills' group: horizon atan(H sin A / D) (closed form)."""
+    import trimesh
+
+    from lightpath.site.builders import ChamberModel
+
+    room = window_room(95.0)
+    D, H, L = 400.0, 30.0, 20_000.0
+    v = [[D - H, -L, 0], [D, -L, H], [D + H, -L, 0], [D - H, L, 0], [D, L, H], [D + H, L, 0]]
+    f = [[0, 1, 4], [0, 4, 3], [1, 2, 5], [1, 5, 4], [0, 3, 5], [0, 5, 2], [0, 2, 1], [3, 4, 5]]
+    parts = dict(room.parts, hills=trimesh.Trimesh(v, f, process=False))
+    model = ChamberModel("room", parts, room.opening_parts, "target", 95.0, room.local_to_site)
+    export_obj(model, tmp_path / "room.obj")
+    text = BASE + '\n[horizon]\nkind = "terrain"\ngroups = ["hills"]\nfrom_m = [0.0, 0.0, 0.0]\ncurvature = false\n'
+    scene = load_scene(write(tmp_path, text))
+    az = np.array([60.0, 90.0, 120.0])
+    expected = np.degrees(np.arctan(H * np.sin(np.radians(az)) / D))
+    assert scene.horizon.altitude_at(az) == pytest.approx(expected, abs=0.01)
+    # the 40 km ridge is terrain: no scale warning; the west has no terrain: a note says so
+    assert not any("largest extent" in w for w in scene.warnings)
+    assert any("no terrain seen" in w for w in scene.warnings)
+
+
+def test_scene_from_model_matches_the_file_route(folder, room):
+    from lightpath.site.modelscene import scene_from_model
+
+    from_file = load_scene(write(folder, BASE))
+    direct = scene_from_model(room, from_file.observer)
+    assert direct.report.triangles == from_file.report.triangles
+    assert direct.target.area == pytest.approx(from_file.target.area, rel=1e-6)
+    np.testing.assert_allclose(direct.mesh.bounds, from_file.mesh.bounds, atol=1e-5)

@@ -20,6 +20,7 @@ from lightpath.site.builders import (
     window_room,
 )
 from lightpath.site.export import export_glb, export_mesh, export_obj
+from lightpath.site.modelscene import scene_from_model
 from lightpath.site.report import LoadReport
 from lightpath.site.sampling import TargetSamples, sample_target
 from lightpath.site.scene import DEMO_SITES, Scene, demo_scene_path, load_scene
@@ -43,6 +44,7 @@ __all__ = [
     "load_scene",
     "passage_chamber",
     "sample_target",
+    "scene_from_model",
     "slit_shrine",
     "window_room",
 ]
