@@ -54,3 +54,34 @@ def test_missing_scene_and_bad_samples(tmp_path, capsys):
     assert main(["inspect", str(tmp_path / "none.toml")]) == 2
     assert "scene file not found" in capsys.readouterr().err
     assert main(["inspect", str(demo_scene_path("shrine")), "--samples", "0"]) == 2
+
+
+GOOD = (
+    '[site]\nlatitude_deg = 40\nlongitude_deg = 10\n[model]\nfile = "room.obj"\nunit = "m"\nup_axis = "z"\n'
+    'north = "true"\n[target]\ngroups = ["target"]\n[opening]\ngroups = ["window"]\n'
+)
+
+
+@pytest.mark.parametrize(
+    "old, new, word",
+    [
+        ("latitude_deg = 40", "latitud_deg = 40", "did you mean 'latitude_deg'"),
+        ('unit = "m"\n', "", "missing key 'model.unit'"),
+        ('"room.obj"', '"gone.obj"', "mesh file not found"),
+        ('["target"]', '["niche"]', "the file's group names: floor, roof, target, walls, window"),
+        ("latitude_deg = 40", "latitude_deg = -91", "-90..90"),
+        ("longitude_deg = 10", "longitude_deg = 181", "-180..180"),
+        ('["target"]', '["target"]\n[horizon]\nkind = "csv"\nfile = "bad.csv"', "bad.csv: line 2"),
+        ('"room.obj"', '"nan.obj"', "non-finite"),
+        ('groups = ["target"]', "box_min_m = [50, 50, 50]\nbox_max_m = [51, 51, 51]", "empty target"),
+    ],
+)
+def test_bad_inputs_exit_2(tmp_path, capsys, old, new, word):
+    export_obj(window_room(90.0), tmp_path / "room.obj")
+    (tmp_path / "bad.csv").write_text("azimuth_deg,altitude_deg\n0,?\n")
+    (tmp_path / "nan.obj").write_text("v 0 0 0\nv 1 0 0\nv 0 inf 0\ng target\nf 1 2 3\n")
+    assert old in GOOD
+    (tmp_path / "s.toml").write_text(GOOD.replace(old, new, 1))
+    assert main(["inspect", str(tmp_path / "s.toml")]) == 2
+    err = capsys.readouterr().err
+    assert word in err and len(err.strip().splitlines()) == 1, err

@@ -172,6 +172,14 @@ def test_demo_sites_load_cleanly(name):
         (("latitude_deg = 40.0", 'latitude_deg = "forty"'), ["site.latitude_deg", "not a finite number"]),
         (("[site]", "site = 3\n[place]"), ["'site' must be a table"]),
         (("[site]", "[place]\n[site]"), ["unknown table [place]"]),
+        (
+            ('groups = ["target"]', 'groups = ["target"]\nflip_normals = "yes"'),
+            ["target.flip_normals", "true or false"],
+        ),
+        (('groups = ["target"]', 'groups = "target"\nbox_min_m = [0, 0]'), ["exactly one of"]),
+        (('groups = ["window"]', "box_min_m = [0, 0]\nbox_max_m = [1, 1, 1]"), ["opening.box_min_m", "three"]),
+        (('groups = ["window"]', "box_min_m = [1, 0, 0]\nbox_max_m = [0, 1, 1]"), ["below box_max_m"]),
+        (('up_axis = "z"', 'up_axis = "up"'), ["model.up_axis", "'up'"]),
     ],
 )
 def test_bad_scene_inputs(folder, change, words):

@@ -40,7 +40,7 @@ from lightpath.site import checks
 from lightpath.site.frames import AXES, NORTH_REFERENCES, UNIT_TO_M, apply_transform, model_to_site_matrix
 from lightpath.site.meshes import LabeledMesh, read_mesh
 from lightpath.site.report import LoadReport, load_report
-from lightpath.site.scene_keys import TOLERANCE_KEYS, check_keys, choice, names, number, text, vector3
+from lightpath.site.scene_keys import TOLERANCE_KEYS, boolean, check_keys, choice, names, number, text, vector3
 from lightpath.site.targets import box_mesh, faces_in_box, select_by_name, submesh
 from lightpath.site.terrain import horizon_from_terrain
 from lightpath.sky.horizon import HorizonProfile, flat_horizon, horizon_dip_deg, read_horizon_csv
@@ -246,7 +246,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
             opening = trimesh.Trimesh(extra.vertices, extra.faces, process=False)
         else:
             opening = box_mesh(*_box(opening_t, "opening", where))
-        if opening_t.get("flip_normals", False):
+        if boolean(opening_t, "opening.flip_normals", where, False):
             opening.invert()
 
     # --- target -------------------------------------------------------------------------------------------
@@ -268,10 +268,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
         blocking_v = np.vstack([blocking_v, extra.vertices])
     if len(target.faces) == 0:
         raise InputError(f"{where}: [target] selects no faces (empty target)")
-    flip = target_t.get("flip_normals", False)
-    if not isinstance(flip, bool):
-        raise InputError(f"{where}: 'target.flip_normals' must be true or false")
-    if flip:
+    if boolean(target_t, "target.flip_normals", where, False):
         target.invert()
     mesh = trimesh.Trimesh(blocking_v, blocking_f, process=False)
     if len(mesh.faces) == 0:
@@ -304,7 +301,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
             submesh(model.vertices, model.faces, terrain_faces),
             vector3(horizon_t, "horizon.from_m", where, default_from),
             step_deg=number(horizon_t, "horizon.step_deg", where, 1.0, 0.01, 30.0),
-            curvature=bool(horizon_t.get("curvature", True)),
+            curvature=boolean(horizon_t, "horizon.curvature", where, True),
         )
         warnings += notes
 

@@ -16,7 +16,18 @@ import math
 
 from lightpath.errors import InputError
 
-__all__ = ["SCHEMA", "REQUIRED", "TOLERANCE_KEYS", "check_keys", "number", "text", "choice", "vector3", "names"]
+__all__ = [
+    "SCHEMA",
+    "REQUIRED",
+    "TOLERANCE_KEYS",
+    "boolean",
+    "check_keys",
+    "choice",
+    "names",
+    "number",
+    "text",
+    "vector3",
+]
 
 _SELECT = ("groups", "objects", "materials", "file", "box_min_m", "box_max_m", "flip_normals")
 
@@ -134,6 +145,17 @@ def vector3(table: dict, key: str, where: str, default=None):
     if not ok:
         raise InputError(f"{where}: '{key}' = {value!r} must be three finite numbers [east, north, up] in metres")
     return [float(v) for v in value]
+
+
+def boolean(table: dict, key: str, where: str, default: bool) -> bool:
+    """``true`` or ``false`` (or ``default`` when absent)."""
+    short = key.split(".")[-1]
+    if short not in table:
+        return default
+    value = table[short]
+    if not isinstance(value, bool):
+        raise InputError(f"{where}: '{key}' = {value!r} must be true or false (no quotes)")
+    return value
 
 
 def names(table: dict, key: str, where: str) -> list[str] | None:
