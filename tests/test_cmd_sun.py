@@ -155,6 +155,27 @@ def test_ancient_december_solstice_declination_is_minus_the_obliquity(capsys):
     assert low["date"].startswith("-3198-01-")
 
 
+def test_one_source_for_a_whole_run(monkeypatch):
+    # A run that starts before JPL DE421 (from 1899-07-29) and goes on inside it is computed with one source,
+    # even when it is split into chunks.
+    import lightpath.commands.sun as cmd
+    from lightpath.sky.observer import Observer
+
+    monkeypatch.setattr(cmd, "_CHUNK", 2)
+    jd = julian_day(np.array([1850, 1900, 1950, 2000]), 1, 1.0)
+    rows = cmd.sun_rows(jd, Observer(latitude_deg=50.0, longitude_deg=0.0))
+    assert len(rows) == 4 and len({r["source"] for r in rows}) == 1 and "VSOP87" in rows[0]["source"]
+    inside = cmd.sun_rows(jd[2:], Observer(latitude_deg=50.0, longitude_deg=0.0))
+    assert {r["source"] for r in inside} == {"JPL DE421 via skyfield"}
+
+
+def test_span_error_writes_nothing_on_stdout(capsys):
+    argv = ["sun", "--site", SITE, "--at", "2999-12-01", "--to", "3001-01-01", "--step", "1440", "--json"]
+    assert main(argv) == 2
+    captured = capsys.readouterr()
+    assert captured.out == "" and "3000" in captured.err
+
+
 def test_table_output(capsys):
     assert main(["sun", "--site", SITE, "--at", "3200 BC-11-03T06:10"]) == 0
     out = capsys.readouterr().out

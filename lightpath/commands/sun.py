@@ -17,6 +17,7 @@ import os
 import sys
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 from lightpath.commands._common import add_output_options, parse_site, progress_bar
 from lightpath.errors import InputError
@@ -147,14 +148,23 @@ def _plain(values: np.ndarray) -> list:
     return out
 
 
-def sun_rows(jd_tt: np.ndarray, observer: Observer, source: str, calendar: str, delta_t_s, advance=None) -> list[dict]:
-    """One dict per instant with the keys ``lightpath sun --json`` prints (degrees, minutes, seconds)."""
+def _fixed_source(jd_tt: np.ndarray, source: str) -> str:
+    """One Sun source for the whole run (``"auto"`` would otherwise be decided chunk by chunk)."""
+    from lightpath.sky.sources import choose_source
+
+    chosen = choose_source(jd_tt, source)
+    return "vsop87" if chosen.kind == "vsop87" else str(chosen.path)
+
+
+def _row_chunks(jd_tt: np.ndarray, observer: Observer, source: str, calendar: str, delta_t_s, advance=None):
+    """Rows (dicts with the keys ``lightpath sun --json`` prints), ``_CHUNK`` instants at a time.
+
+    ``source`` must already be fixed for the whole run (see :func:`_fixed_source`)."""
     from lightpath.sky.sun import sun_position
 
-    rows: list[dict] = []
     for lo in range(0, len(jd_tt), _CHUNK):
         part = jd_tt[lo : lo + _CHUNK]
-        pos = sun_position(part, observer, source="auto" if source is None else source, delta_t_s=delta_t_s)
+        pos = sun_position(part, observer, source=source, delta_t_s=delta_t_s)
         jd_ut = np.asarray(pos.jd_ut, dtype=np.float64)
         uncertain = np.asarray(deltat.ut_date_uncertain(part))
         if delta_t_s is not None:
@@ -179,6 +189,7 @@ def sun_rows(jd_tt: np.ndarray, observer: Observer, source: str, calendar: str, 
             "semidiameter_deg": pos.semidiameter_deg,
         }
         columns = {k: _plain(np.broadcast_to(np.asarray(v, dtype=np.float64), part.shape)) for k, v in columns.items()}
+        rows = []
         for i in range(len(part)):
             row = {k: v[i] for k, v in columns.items()}
             row["ut"] = str(ut_text[i])
@@ -190,33 +201,69 @@ def sun_rows(jd_tt: np.ndarray, observer: Observer, source: str, calendar: str, 
             rows.append(row)
         if advance is not None:
             advance(len(part))
-    return rows
+        yield rows
 
 
-def _print_table(rows: list[dict], observer: Observer, args: argparse.Namespace) -> None:
-    out = sys.stdout
+def sun_rows(jd_tt: ArrayLike, observer: Observer, source: str = "auto", calendar: str = "auto", delta_t_s=None):
+    """One dict per instant (JD TT) with the keys ``lightpath sun --json`` prints.
+
+    Angles in degrees, the equation of time in minutes, ΔT and σ in seconds; one Sun
+    source for all instants.
+    """
+    jd = np.atleast_1d(np.asarray(jd_tt, dtype=np.float64))
+    fixed = _fixed_source(jd, source)
+    return [row for chunk in _row_chunks(jd, observer, fixed, calendar, delta_t_s) for row in chunk]
+
+
+def _table_header(first: dict, observer: Observer) -> str:
     lat, lon = observer.latitude_deg, observer.longitude_deg
     refraction = "none" if observer.refraction is None else "Bennett (1982)"
-    out.write(
+    return (
         f"site {abs(lat):.5f}°{'N' if lat >= 0 else 'S'} {abs(lon):.5f}°{'E' if lon >= 0 else 'W'} "
-        f"{observer.elevation_m:g} m; Sun source {rows[0]['source']}; refraction {refraction}; "
-        f"dates in the {rows[0]['calendar']} calendar (UT date)\n"
+        f"{observer.elevation_m:g} m; Sun source {first['source']}; refraction {refraction}; "
+        f"dates in the {first['calendar']} calendar (UT date)\n"
     )
-    cells = [[fmt.format(r[key]) if r[key] is not None else "nan" for key, _, fmt in _COLUMNS] for r in rows]
+
+
+def _write_table(chunks, observer: Observer, args: argparse.Namespace) -> None:
+    out = sys.stdout
     heads = [head for _, head, _ in _COLUMNS]
-    widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
-    out.write("  ".join(h.rjust(w) for h, w in zip(heads, widths, strict=True)) + "\n")
-    for c in cells:
-        out.write("  ".join(v.rjust(w) for v, w in zip(c, widths, strict=True)) + "\n")
+    widths = None
+    uncertain = False
+    for rows in chunks:
+        cells = [[fmt.format(r[key]) if r[key] is not None else "nan" for key, _, fmt in _COLUMNS] for r in rows]
+        if widths is None:  # column widths from the first chunk
+            out.write(_table_header(rows[0], observer))
+            widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
+            out.write("  ".join(h.rjust(w) for h, w in zip(heads, widths, strict=True)) + "\n")
+        for c in cells:
+            out.write("  ".join(v.rjust(w) for v, w in zip(c, widths, strict=True)) + "\n")
+        uncertain = uncertain or any(r["ut_date_uncertain"] for r in rows)
     if args.delta_t is not None:
         out.write(f"ΔT fixed at {args.delta_t:g} s by --delta-t\n")
     else:
         out.write(f"ΔT: {deltat.DELTA_T_SOURCE}\n")
-        if any(r["ut_date_uncertain"] for r in rows):
+        if uncertain:
             out.write(
                 "note: here 2σ of ΔT is an hour or more, so UT clock times (and UT dates near midnight) are "
                 "uncertain; local apparent time (LAT) is not affected\n"
             )
+
+
+def _write_json(chunks, single: bool) -> None:
+    out = sys.stdout
+    if single:
+        json.dump(next(iter(chunks))[0], out, indent=2, ensure_ascii=False, allow_nan=False)
+        out.write("\n")
+        return
+    out.write("[")
+    sep = "\n"
+    for rows in chunks:
+        for row in rows:
+            out.write(sep)
+            out.write(json.dumps(row, ensure_ascii=False, allow_nan=False))
+            sep = ",\n"
+    out.write("\n]\n")
 
 
 def run(args: argparse.Namespace) -> int:
@@ -224,18 +271,12 @@ def run(args: argparse.Namespace) -> int:
     observer = _observer(args)
     source = _source(args)
     jd_tt = _instants(args, observer, source)
-    with progress_bar("Sun positions", len(jd_tt) if len(jd_tt) > _CHUNK else 0, quiet=args.quiet) as advance:
-        rows = sun_rows(jd_tt, observer, source, args.calendar, args.delta_t, advance)
-    if args.json:
-        if args.to is None:
-            json.dump(rows[0], sys.stdout, indent=2, ensure_ascii=False, allow_nan=False)
-            sys.stdout.write("\n")
+    source = _fixed_source(jd_tt, source)  # checks the span before anything is written
+    total = len(jd_tt) if len(jd_tt) > _CHUNK else 0
+    with progress_bar("Sun positions", total, quiet=args.quiet) as advance:
+        chunks = _row_chunks(jd_tt, observer, source, args.calendar, args.delta_t, advance)
+        if args.json:
+            _write_json(chunks, single=args.to is None)
         else:
-            sys.stdout.write("[\n")
-            for i, row in enumerate(rows):
-                sys.stdout.write(json.dumps(row, ensure_ascii=False, allow_nan=False))
-                sys.stdout.write(",\n" if i + 1 < len(rows) else "\n")
-            sys.stdout.write("]\n")
-    else:
-        _print_table(rows, observer, args)
+            _write_table(chunks, observer, args)
     return 0
