@@ -52,6 +52,7 @@ from lightpath.light.window import SkyWindow
 
 __all__ = [
     "CRITERIA",
+    "CRITERION_EDGE",
     "LIMB_DARKENING_U",
     "SEMIDIAMETER_DEG",
     "disc_fraction",
@@ -90,41 +91,41 @@ def _uniform_fractions(window: SkyWindow, radius_deg: float) -> NDArray:
     r_d = radius_deg / res  # semi-axis in δ cells
     cos_max = math.cos(math.radians(window.grid.declination_limit_deg))
     pad = int(math.ceil(r_d / cos_max)) + 2
-    padded = np.zeros((s_count, nh + 2 * pad, nd), np.float32)
-    padded[:, pad : pad + nh] = mask
-    cum = np.zeros((s_count, nh + 2 * pad + 1, nd), np.float64)
-    np.cumsum(padded, axis=1, out=cum[:, 1:])
-    out = np.zeros((s_count, nh, nd), np.float64)
+    width = nh + 2 * pad + 1  # cumulative sums along H, one leading zero
+    cum = np.zeros((s_count, width, nd), np.float32)  # exact: counts below 2**24
+    np.cumsum(mask, axis=1, out=cum[:, pad + 1 : pad + 1 + nh])
+    cum[:, pad + 1 + nh :] = cum[:, pad + nh : pad + nh + 1]
+    flat = cum.reshape(-1)
+    out = np.zeros((s_count, nh, nd), np.float32)
     rows = int(math.ceil(r_d + 0.5))
-    base = np.arange(nh)[None, :] + pad + 0.5  # continuous x of each output cell centre
-    s_idx = np.arange(s_count)[:, None]
-    for j in range(nd):
-        delta = np.radians(window.grid.d_center(window.d0 + j))  # (S,) declination of this output row
-        r_h = r_d / np.cos(delta)  # semi-axis in H cells, per sample
-        for dj in range(-rows, rows + 1):
-            jj = j + dj
-            if not 0 <= jj < nd:
-                continue
-            t0, t1 = (dj - 0.5) / r_d, (dj + 0.5) / r_d
-            if t0 >= 1.0 or t1 <= -1.0:
-                continue
-            area = r_h * r_d * _strip_area(np.float64(t0), np.float64(t1))  # (S,) cells², this row's share
-            height = (min(t1, 1.0) - max(t0, -1.0)) * r_d
-            a = area / (2.0 * height)  # half-length of the equal-area segment, cells
-            col = cum[:, :, jj]
-            hi = _interp(col, s_idx, base + a[:, None])
-            lo = _interp(col, s_idx, base - a[:, None])
-            out[:, :, j] += height * (hi - lo)
-        out[:, :, j] /= math.pi * r_h[:, None] * r_d
-    return np.clip(out, 0.0, 1.0).astype(np.float32)
-
-
-def _interp(cum: NDArray, s_idx: NDArray, x: NDArray) -> NDArray:
-    """Cumulative sum ``cum`` (S, n+1) read at continuous positions ``x`` (S, m), linear inside a cell."""
-    k = np.floor(x).astype(np.int64)
-    k = np.clip(k, 0, cum.shape[1] - 2)
-    f = np.clip(x - k, 0.0, 1.0)
-    return cum[s_idx, k] + f * (cum[s_idx, k + 1] - cum[s_idx, k])
+    delta = np.radians(window.grid.d_center(window.d0[:, None] + np.arange(nd)[None, :]))  # (S, nd) output rows
+    r_h = r_d / np.cos(delta)  # semi-axis in H cells, per sample and output row
+    col = (np.arange(nh, dtype=np.int64) * nd)[None, :, None]
+    for dj in range(-rows, rows + 1):
+        t0, t1 = (dj - 0.5) / r_d, (dj + 0.5) / r_d
+        if t0 >= 1.0 or t1 <= -1.0:
+            continue
+        lo_j, hi_j = max(0, -dj), min(nd, nd - dj)  # output rows whose source row j + dj exists
+        if hi_j <= lo_j:
+            continue
+        height = (min(t1, 1.0) - max(t0, -1.0)) * r_d
+        # this strip's share of the ellipse as a segment of equal area, half-length a (cells)
+        a = r_h[:, lo_j:hi_j] * r_d * _strip_area(np.float64(t0), np.float64(t1)) / (2.0 * height)
+        rows_src = np.arange(lo_j, hi_j) + dj
+        strip = np.zeros((s_count, nh, hi_j - lo_j), np.float32)
+        for sign in (1.0, -1.0):
+            # position of the segment's end for output cell i: i + pad + 0.5 ± a = i + K + f
+            x = pad + 0.5 + sign * a
+            k = np.floor(x).astype(np.int64)
+            f = (x - k).astype(np.float32)[:, None, :]
+            start = (np.arange(s_count, dtype=np.int64)[:, None] * width + k) * nd + rows_src[None, :]
+            idx = start[:, None, :] + col
+            c0 = np.take(flat, idx)
+            c1 = np.take(flat, idx + nd)
+            strip += np.float32(sign) * (c0 + f * (c1 - c0))
+        out[:, :, lo_j:hi_j] += np.float32(height) * strip
+    out /= (math.pi * r_h * r_d).astype(np.float32)[:, None, :]
+    return np.clip(out, 0.0, 1.0)
 
 
 def disc_fractions(
@@ -190,16 +191,24 @@ def disc_fraction(
     horizon_offset_deg: float = 0.0,
     semidiameter_deg: float = SEMIDIAMETER_DEG,
     limb_darkening_u: float | None = None,
+    edge: str | None = None,
 ) -> NDArray:
     """Visible fraction of the disc (M, S) for apparent Sun directions ``sun_enu`` (M, 3), ENU.
 
     ``rotation`` (3×3) rotates the whole structure about the target: the look-up
     is then at Rᵀ·s.  The horizon (``window.horizon``, apparent altitudes, raised
     by ``horizon_offset_deg``) stays put.
+
+    ``edge`` chooses what is interpolated between cell centres.  Where the disc
+    just enters (or just leaves) the sky, the fraction grows as depth^1.5 (a
+    circular segment), so straight bilinear interpolation of it would put first
+    gleam up to a cell early.  ``"low"`` interpolates f^(2/3) (linear in the
+    limb's depth: for ``first-gleam``), ``"high"`` interpolates (1 − f)^(2/3)
+    (for ``full-disc``), None interpolates f itself.
     """
     s = np.asarray(sun_enu, dtype=np.float64).reshape(-1, 3)
     s = s / np.linalg.norm(s, axis=1, keepdims=True)
-    frac = disc_fractions(window, semidiameter_deg, limb_darkening_u)
+    frac = _edge_table(window, semidiameter_deg, limb_darkening_u, edge)
     altitude = np.degrees(np.arcsin(np.clip(s[:, 2], -1.0, 1.0)))
     azimuth = np.degrees(np.arctan2(s[:, 0], s[:, 1])) % 360.0
     hfac = horizon_fraction(altitude, _horizon_altitude(window, azimuth, horizon_offset_deg), semidiameter_deg)
@@ -227,8 +236,29 @@ def disc_fraction(
         f01 = flat[rows, base + 1]
         f11 = flat[rows, base + nd + 1]
         val = (f00 * (1 - fi) + f10 * fi) * (1 - fj) + (f01 * (1 - fi) + f11 * fi) * fj
+        if edge == "low":
+            val = val**1.5
+        elif edge == "high":
+            val = 1.0 - val**1.5
         out[b] = np.where(ok, val, 0.0) * hfac[b, None]
     return out
+
+
+#: Which end of the fraction each criterion tests, for :func:`disc_fraction`'s ``edge``.
+CRITERION_EDGE = {"first-gleam": "low", "half-disc": None, "full-disc": "high"}
+
+
+def _edge_table(window: SkyWindow, semidiameter_deg: float, limb_darkening_u: float | None, edge: str | None):
+    frac = disc_fractions(window, semidiameter_deg, limb_darkening_u)
+    if edge is None:
+        return frac
+    if edge not in ("low", "high"):
+        raise ValueError(f"edge {edge!r} is not one of low, high, None")
+    key = ("edge", edge, round(float(semidiameter_deg), 9), limb_darkening_u)
+    if key not in window._fractions:
+        base = frac if edge == "low" else 1.0 - frac
+        window._fractions[key] = np.power(np.clip(base, 0.0, 1.0), np.float32(2.0 / 3.0)).astype(np.float32)
+    return window._fractions[key]
 
 
 def meets(fraction: ArrayLike, criterion: str) -> NDArray[np.bool_]:
@@ -256,8 +286,14 @@ def lit_area(
     ``rotation`` (3×3) rotates the structure about the target (look-up at Rᵀ·s);
     ``horizon_offset_deg`` raises the horizon profile (degrees).
     """
+    meets(0.0, criterion)  # checks the name
     f = disc_fraction(
-        window, sun_enu, rotation=rotation, horizon_offset_deg=horizon_offset_deg, limb_darkening_u=limb_darkening_u
+        window,
+        sun_enu,
+        rotation=rotation,
+        horizon_offset_deg=horizon_offset_deg,
+        limb_darkening_u=limb_darkening_u,
+        edge=CRITERION_EDGE[criterion],
     )
     return meets(f, criterion).astype(np.float64) @ window.area_m2
 
