@@ -102,8 +102,9 @@ def test_flatten_target_recovers_a_tilted_rectangle():
     d3 = np.linalg.norm(pts[:, None, :] - pts[None, :, :], axis=-1)
     d2 = np.linalg.norm(uv[:, None, :] - uv[None, :, :], axis=-1)
     np.testing.assert_allclose(d2, d3, atol=1e-9)
-    # The long side comes first.
-    assert np.ptp(uv[:, 0]) > 3 * np.ptp(uv[:, 1])
+    # A wall: the first axis is level (along e1), the second goes up it.
+    assert np.ptp(uv[:, 0]) == pytest.approx(np.ptp(uv_true[:, 0]), rel=1e-9)
+    assert np.ptp(uv[:, 1]) == pytest.approx(np.ptp(uv_true[:, 1]), rel=1e-9)
 
 
 def test_light_patch_strip_has_one_frame_per_instant():
@@ -113,7 +114,7 @@ def test_light_patch_strip_has_one_frame_per_instant():
     fig = light_patch_figure(pts, lit, ["08:50", "08:58", "09:05"])
     frames = [ax for ax in fig.axes if ax.axison]
     assert [ax.get_title() for ax in frames] == ["08:50 — 20% lit", "08:58 — 50% lit", "09:05 — 80% lit"]
-    assert frames[0].get_xlabel() == "Along the target (m)" and frames[0].get_ylabel() == "Across the target (m)"
+    assert frames[0].get_xlabel() == "Along the target, level (m)" and frames[0].get_ylabel() == "Up the target (m)"
     with pytest.raises(InputError, match="do not match"):
         light_patch_figure(pts, lit, ["a", "b"])
 

@@ -34,7 +34,14 @@ from matplotlib.figure import Figure
 from lightpath.errors import InputError
 from lightpath.present.figures import LINE_COLOURS, new_figure
 
-__all__ = ["centred_azimuth", "flatten_target", "light_patch_figure", "sky_window_figure", "window_outlines"]
+__all__ = [
+    "centred_azimuth",
+    "flatten_target",
+    "light_patch_figure",
+    "sky_window_figure",
+    "target_plane",
+    "window_outlines",
+]
 
 
 def centred_azimuth(azimuth_deg: np.ndarray, centre_deg: float) -> np.ndarray:
@@ -166,21 +173,62 @@ def sky_window_figure(
     return fig
 
 
-def flatten_target(points_enu_m: np.ndarray) -> np.ndarray:
-    """Target sample points (N, 3; East-North-Up, metres) → (N, 2) coordinates in the target's plane.
+def target_plane(points_enu_m: np.ndarray, facing_enu: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
+    """The target's own plane: (origin (3,), axes (2, 3)), as seen from the side it faces.
 
-    The axes are the two principal directions of the points (largest spread first), origin
-    at their mean; each axis is signed so that its largest component is positive, so the
-    picture is the same on every run.
+    The plane's normal is the direction of least spread of the points (principal component
+    analysis, Pearson 1901), turned toward ``facing_enu`` (e.g. the mean of the samples'
+    normals) when given, else upward.  A wall (normal within 64° of horizontal) is drawn as a
+    viewer in front of it sees it: first axis horizontal to the right, second axis up the wall.
+    A floor or ceiling is drawn with east to the right and north (or south, for a ceiling
+    seen from below) up.  The origin is the points' mean.
+
+    >>> origin, axes = target_plane(np.array([[0, 0, 0], [2, 0, 0], [0, 0, 1], [2, 0, 1.0]]), [0, -1, 0])
+    >>> axes.round(6).tolist()   # a wall facing south: east to the right, up the wall
+    [[1.0, 0.0, 0.0], [0.0, 0.0, 1.0]]
     """
     pts = np.asarray(points_enu_m, dtype=float)
     if pts.ndim != 2 or pts.shape[1] != 3 or pts.shape[0] < 3:
         raise InputError("light patch: target points must be an (N, 3) array with N ≥ 3")
-    centred = pts - pts.mean(axis=0)
-    _, _, vt = np.linalg.svd(centred, full_matrices=False)  # Pearson (1901): principal axes
-    axes = vt[:2]
-    signs = np.sign(axes[np.arange(2), np.argmax(np.abs(axes), axis=1)])
-    return centred @ (axes * signs[:, None]).T
+    origin = pts.mean(axis=0)
+    _, _, vt = np.linalg.svd(pts - origin, full_matrices=False)  # Pearson (1901): principal axes
+    normal = vt[2]
+    toward = np.array([0.0, 0.0, 1.0]) if facing_enu is None else np.asarray(facing_enu, dtype=float)
+    if normal @ toward < 0:
+        normal = -normal
+    up = np.array([0.0, 0.0, 1.0])
+    if abs(normal[2]) < 0.9:
+        right = np.cross(up, normal)  # viewer looks along −normal: right = up × normal
+        right /= np.linalg.norm(right)
+    else:
+        right = np.array([1.0, 0.0, 0.0])
+    return origin, np.stack([right, np.cross(normal, right)])
+
+
+def flatten_target(points_enu_m: np.ndarray) -> np.ndarray:
+    """Target sample points (N, 3; East-North-Up, metres) → (N, 2) coordinates in the target's plane, metres.
+
+    See :func:`target_plane` for the axes.
+    """
+    origin, axes = target_plane(points_enu_m)
+    return (np.asarray(points_enu_m, dtype=float) - origin) @ axes.T
+
+
+def _inside_triangles(px: np.ndarray, tri_uv: np.ndarray, chunk: int = 2_000_000) -> np.ndarray:
+    """Which points (M, 2) lie in any of the triangles (T, 3, 2): barycentric signs, in chunks."""
+    inside = np.zeros(len(px), dtype=bool)
+    a, b, c = tri_uv[:, 0], tri_uv[:, 1], tri_uv[:, 2]
+    v0, v1 = b - a, c - a
+    den = v0[:, 0] * v1[:, 1] - v0[:, 1] * v1[:, 0]
+    ok = np.abs(den) > 1e-15
+    a, v0, v1, den = a[ok], v0[ok], v1[ok], den[ok]
+    step = max(1, chunk // max(len(a), 1))
+    for k in range(0, len(px), step):
+        p = px[k : k + step, None, :] - a[None, :, :]
+        s = (p[..., 0] * v1[None, :, 1] - p[..., 1] * v1[None, :, 0]) / den
+        t = (v0[None, :, 0] * p[..., 1] - v0[None, :, 1] * p[..., 0]) / den
+        inside[k : k + step] = ((s >= -1e-9) & (t >= -1e-9) & (s + t <= 1 + 1e-9)).any(axis=1)
+    return inside
 
 
 def light_patch_figure(
@@ -189,9 +237,12 @@ def light_patch_figure(
     labels: Sequence[str],
     *,
     title: str | None = None,
-    columns: int = 4,
+    columns: int = 3,
+    area_m2: np.ndarray | None = None,
+    triangles_enu_m: np.ndarray | None = None,
+    facing_enu: np.ndarray | None = None,
 ) -> Figure:
-    """A strip of frames: the target laid flat, lit samples bright, at each instant.
+    """A strip of frames: the target laid flat, lit parts bright, at each instant.
 
     Parameters
     ----------
@@ -200,9 +251,17 @@ def light_patch_figure(
     labels : F frame labels (e.g. local apparent times ``"07:42"``).
     title : the figure title.
     columns : frames per row.
+    area_m2 : (N,) area each sample stands for (m²), to give each frame's lit share by area.
+    triangles_enu_m : (T, 3, 3) the target's triangles (ENU metres), to draw its true outline; without
+        them the outline is guessed from the samples' spacing.
+    facing_enu : the direction the target faces (e.g. mean sample normal), for the side it is seen from.
+
+    Each pixel takes the state of its nearest sample, so the frames show patches rather than dots.
     """
     lit = np.atleast_2d(np.asarray(lit, dtype=bool))
-    uv = flatten_target(points_enu_m)
+    origin, plane_axes = target_plane(points_enu_m, facing_enu)
+    uv = (np.asarray(points_enu_m, dtype=float) - origin) @ plane_axes.T
+    weights = None if area_m2 is None else np.asarray(area_m2, dtype=float)
     if lit.shape[1] != uv.shape[0] or lit.shape[0] != len(labels):
         raise InputError(f"light patch: lit flags {lit.shape} do not match {len(labels)} frames × {uv.shape[0]} points")
     frames = lit.shape[0]
@@ -212,19 +271,49 @@ def light_patch_figure(
     aspect = float(span[1] / span[0]) if span[0] > 0 else 1.0
     fig = new_figure(2.6 * cols + 0.6, max(2.0, 2.6 * cols * aspect / cols) * rows + 0.8)
     axes = fig.subplots(rows, cols, squeeze=False, sharex=True, sharey=True)
-    size = float(np.clip(4000.0 / uv.shape[0], 2.0, 30.0))
+    # Each pixel shows its nearest sample (a Voronoi picture of the samples), blank away from the target.
+    from matplotlib.colors import ListedColormap
+    from scipy.spatial import cKDTree
+
+    tree = cKDTree(uv)
+    # Typical distance between samples: the side of the square each one stands for when areas are given,
+    # else the 95th percentile of nearest-neighbour distances (the target's stratified samples leave few gaps).
+    if weights is not None and weights.sum() > 0:
+        spacing = float(np.sqrt(weights.sum() / uv.shape[0]))
+    else:
+        spacing = float(np.percentile(tree.query(uv, k=2)[0][:, 1], 95)) if uv.shape[0] > 1 else 1.0
+    tri_uv = None
+    if triangles_enu_m is not None and len(triangles_enu_m) <= 50_000:
+        tri_uv = (np.asarray(triangles_enu_m, dtype=float).reshape(-1, 3) - origin) @ plane_axes.T
+        tri_uv = tri_uv.reshape(-1, 3, 2)
+        low, high = tri_uv.reshape(-1, 2).min(axis=0), tri_uv.reshape(-1, 2).max(axis=0)
+    else:
+        low, high = uv.min(axis=0) - spacing / 2, uv.max(axis=0) + spacing / 2
+    nx = 240
+    ny = max(8, int(round(nx * (high[1] - low[1]) / max(high[0] - low[0], 1e-12))))
+    gx, gy = np.meshgrid(np.linspace(low[0], high[0], nx), np.linspace(low[1], high[1], ny))
+    pixels = np.column_stack([gx.ravel(), gy.ravel()])
+    dist, nearest = tree.query(pixels)
+    inside = (_inside_triangles(pixels, tri_uv) if tri_uv is not None else dist <= spacing).reshape(gx.shape)
+    nearest = nearest.reshape(gx.shape)
+    cmap = ListedColormap(["#3b3b4f", "#FDE725"])  # unlit, lit: the ends of viridis' lightness range
+    extent = (low[0], high[0], low[1], high[1])
     for f, ax in enumerate(axes.flat):
         if f >= frames:
             ax.set_axis_off()
             continue
-        ax.scatter(uv[~lit[f], 0], uv[~lit[f], 1], s=size, color="#3b3b4f", marker="s", lw=0)
-        ax.scatter(uv[lit[f], 0], uv[lit[f], 1], s=size, color="#FDE725", marker="s", lw=0)
+        picture = np.where(inside, lit[f][nearest].astype(float), np.nan)
+        ax.imshow(picture, origin="lower", extent=extent, cmap=cmap, vmin=0, vmax=1, interpolation="nearest")
         ax.set_aspect("equal")
-        ax.set_title(f"{labels[f]} — {lit[f].mean():.0%} lit", fontsize=8)
-        ax.set_facecolor("#20202a")
+        area_share = lit[f].mean() if weights is None else float(weights[lit[f]].sum() / weights.sum())
+        ax.set_title(f"{labels[f]} — {area_share:.0%} lit", fontsize=8)
+        ax.set_facecolor("white")
+    wall = abs(np.cross(plane_axes[0], plane_axes[1])[2]) < 0.9
     for ax in axes[-1]:
-        ax.set_xlabel("Along the target (m)")
+        ax.set_xlabel("Along the target, level (m)" if wall else "East (m)")
     for ax in axes[:, 0]:
-        ax.set_ylabel("Across the target (m)")
-    fig.suptitle(title or "Where the light falls on the target (target laid flat, lit samples in yellow)")
+        ax.set_ylabel("Up the target (m)" if wall else "North on the target (m)")
+    fig.suptitle(
+        title or "Where the light falls on the target (target laid flat in its own plane; lit parts in yellow)"
+    )
     return fig
