@@ -1,6 +1,8 @@
 """Regenerate the three demo sites in lightpath/demo_models/ from the parametric builders.
 
-Run:  python tools/make_demo_models.py        (writes mesh, scene, horizon CSV and README of each site)
+Run:  python tools/make_demo_models.py          (writes mesh, scene, horizon CSV and README of each site)
+      python tools/make_demo_models.py --check  (then runs the engine on each site for its epoch and prints
+                                                 the runs of days with light around each division)
 
 The sites are invented (names, stories, coordinates).  Each opening is aimed with the closed form for the
 azimuth of the Sun at a given altitude h on a given declination δ at latitude φ,
@@ -238,7 +240,23 @@ STORIES = {
 }
 
 
-def main() -> None:
+def check(name: str, site: dict) -> None:
+    """Run the engine on the regenerated site for its epoch and print where light falls (needs lightpath.light)."""
+    from lightpath.light.scan import scan_scene
+    from lightpath.site.scene import load_scene
+
+    result = scan_scene(load_scene(OUT / name / "scene.toml"), [site["epoch_year"]], samples=300)
+    year = result.years[0]
+    for run in year.divisions:
+        if run.first_date:
+            print(
+                f"    light around {run.name}: {run.first_date} .. {run.last_date} ({year.calendar}), "
+                f"{run.days} days, {run.first_offset_days:+.0f} .. {run.last_offset_days:+.0f} days from it"
+            )
+
+
+def main(argv: list[str] | None = None) -> None:
+    argv = sys.argv[1:] if argv is None else argv
     for name, site in SITES.items():
         folder = OUT / name
         folder.mkdir(parents=True, exist_ok=True)
@@ -273,6 +291,8 @@ def main() -> None:
             p.chmod(0o644)  # package data: readable by everyone (atomic writes create 0600 files)
         size = sum(p.stat().st_size for p in folder.iterdir())
         print(f"{name}: azimuth {a['azimuth_deg']:.2f} deg, lit {fields['lit']:.0%}, {size / 1e3:.0f} kB")
+        if "--check" in argv:
+            check(name, site)
 
 
 if __name__ == "__main__":
