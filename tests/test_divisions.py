@@ -162,6 +162,17 @@ def test_all_schemes_and_calendars():
     assert jul[0].date != greg[0].date
 
 
+def test_range_edges():
+    # -10000: its opening December solstice lies in -10001, still inside the Sun's span; 2999 is the last year.
+    first = divisions(-10000, "all", 4, observer=SITE)
+    q = quarter_days(-10000)
+    assert first[0].jd_tt < float(q.march_equinox_jd_tt) < first[1].jd_tt + 1.0
+    last = divisions(2999, "all", 4, observer=SITE)
+    assert abs(last[-1].jd_tt + last[-1].part_days - float(quarter_days(2999).december_solstice_jd_tt)) < 1.0
+    with pytest.raises(InputError, match="June"):
+        divisions(2999, "days", 4, anchor="june")
+
+
 def test_odd_parts():
     d = divisions(2000, "time", 3)
     assert [x.name for x in d] == ["december_solstice", "division_1_of_3", "division_2_of_3"]

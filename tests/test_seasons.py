@@ -11,6 +11,7 @@ from lightpath.sky.seasons import (
     YEAR_MAX,
     YEAR_MIN,
     half_years,
+    opening_december_solstice,
     quarter_days,
     season_lengths,
     solar_longitude_instant,
@@ -138,6 +139,14 @@ def test_tropical_year_about_365_quarter_days():
     q = quarter_days(np.arange(1990, 2031))
     mean_year = np.diff(q.december_solstice_jd_tt).mean()
     assert abs(mean_year - 365.2422) < 0.002
+
+
+def test_opening_december_solstice():
+    years = np.array([-10000, -3199, 2000])
+    prev = opening_december_solstice(years)
+    np.testing.assert_allclose(prev[1:], quarter_days(years[1:] - 1).december_solstice_jd_tt, atol=1e-7)
+    gap = quarter_days(years).march_equinox_jd_tt - prev
+    assert np.all((gap > 85.0) & (gap < 96.0))
 
 
 def test_shapes_and_source():

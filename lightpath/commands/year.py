@@ -28,8 +28,8 @@ from lightpath.sky.divisions import ANCHORS, SCHEMES, Division, divisions
 from lightpath.sky.observer import Observer
 from lightpath.sky.seasons import (
     QUARTER_NAMES,
-    _quarter_days_unchecked,
     half_years,
+    opening_december_solstice,
     quarter_days,
     season_lengths,
 )
@@ -117,8 +117,7 @@ def year_document(
         if progress is not None:
             progress()
     q = quarter_days(year, source=source)
-    # the December solstice that opens the year (for YEAR_MIN it lies one year before the supported range)
-    prev_dec = float(_quarter_days_unchecked(np.array(year - 1), source).december_solstice_jd_tt)
+    prev_dec = float(opening_december_solstice(year, source=source))  # December of year - 1
     names = ["december_solstice", *QUARTER_NAMES]
     jd_tt = np.array([prev_dec] + [float(q.jd_tt(n)) for n in QUARTER_NAMES], dtype=float)
     jd_ut = np.asarray(ut_from_tt(jd_tt), dtype=float)
@@ -202,9 +201,9 @@ def _print_text(doc: dict) -> None:
     for q in doc["quarter_days"]:
         lat_h = q["local_apparent_time_h"]
         hh, mm = divmod(round(lat_h * 60.0) % 1440, 60)
+        name = q["name"] if q["of_year"] == doc["year"] else f"{q['name']} of {year_label(q['of_year'])}"
         print(
-            f"  {q['name']:<18} {q['date']}  {hh:02d}:{mm:02d} LAT  JDE {q['jd_tt']:.5f}  "
-            f"(ΔT ±{q['delta_t_sigma_s']:.0f} s)"
+            f"  {name:<30} {q['date']}  {hh:02d}:{mm:02d} LAT  JDE {q['jd_tt']:.5f}  (ΔT ±{q['delta_t_sigma_s']:.0f} s)"
         )
     h, s = doc["half_years"], doc["seasons_days"]
     print(

@@ -58,6 +58,7 @@ from lightpath.sky.riseset import rise_set_azimuths
 from lightpath.sky.seasons import (
     YEAR_MAX,
     _check_years,
+    _opening_december,
     _quarter_days_unchecked,
     solar_longitude_instant,
     year_span_source,
@@ -285,9 +286,10 @@ def divisions(
             f"beyond the last supported year {YEAR_MAX}"
         )
     source = year_span_source(y, y + 1 if june_next else y, source)
-    q = _quarter_days_unchecked(np.array([y - 1, y, y + 1] if june_next else [y - 1, y]), source)
+    q = _quarter_days_unchecked(np.array([y, y + 1] if june_next else [y]), source)
+    d0 = float(_opening_december(q, source)[0])
     dec_sol, jun_sol = q.december_solstice_jd_tt, q.june_solstice_jd_tt
-    solstices = (float(dec_sol[0]), float(jun_sol[1]), float(dec_sol[1]), float(jun_sol[2]) if june_next else np.nan)
+    solstices = (d0, float(jun_sol[0]), float(dec_sol[0]), float(jun_sol[1]) if june_next else np.nan)
     lon = observer.longitude_deg if observer is not None else 0.0
     out: list[Division] = []
     for name in schemes:

@@ -57,6 +57,7 @@ __all__ = [
     "quarter_days",
     "concrete_source",
     "longitude_rate_deg_per_day",
+    "opening_december_solstice",
     "year_span_source",
     "season_lengths",
     "solar_longitude_instant",
@@ -302,10 +303,26 @@ def _with_previous_december(years: ArrayLike, source: str) -> tuple[NDArray, Qua
     if y.size:
         source = year_span_source(int(y.min()), int(y.max()), source)
     q = _quarter_days_unchecked(y, source)
-    # the December solstice that opens each year (for YEAR_MIN it lies in YEAR_MIN - 1, still in the Sun's span)
+    return y, q, _opening_december(q, source)
+
+
+def _opening_december(q: QuarterDays, source: str) -> NDArray:
+    # The December solstice of Y - 1 (for YEAR_MIN it lies in YEAR_MIN - 1, still inside the Sun's span,
+    # whose March equinox is not): one more Newton solve from a guess one tropical year before Y's.
     guess = np.asarray(q.december_solstice_jd_tt) - _TROPICAL_YEAR_DAYS  # within minutes of the answer
     prev, _ = solar_longitude_instant(np.full(np.shape(guess), 270.0), guess, source=source)
-    return y, q, np.asarray(prev)
+    return np.asarray(prev)
+
+
+def opening_december_solstice(years: ArrayLike, source: str = "auto") -> NDArray:
+    """The December solstice of ``Y − 1`` that opens each year ``Y`` (JD TT), for ``Y`` in −10000…+2999.
+
+    >>> q, d = quarter_days(2000), opening_december_solstice(2000)
+    >>> round(float(q.march_equinox_jd_tt - d), 2)
+    88.99
+    """
+    _, _, prev = _with_previous_december(years, source)
+    return prev[()] if prev.ndim == 0 else prev
 
 
 def year_span_source(first_year: int, last_year: int, source: str = "auto") -> str:
