@@ -4,12 +4,15 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from lightpath.errors import InputError
 from lightpath.site.frames import (
     UNIT_TO_M,
     apply_transform,
     axes_matrix,
+    axis_vector,
     azimuth_turn_matrix,
     model_to_site_matrix,
     true_azimuth_deg,
@@ -105,3 +108,27 @@ def test_bad_frame_inputs(kwargs, word):
     unit = kwargs.pop("unit")
     with pytest.raises(InputError, match=word):
         model_to_site_matrix(unit, **kwargs)
+
+
+_angles = st.floats(-89.0, 89.0, allow_nan=False)
+_axes = st.sampled_from([("z", "y"), ("y", "-z"), ("x", "z"), ("-z", "x"), ("-y", "-x")])
+
+
+@settings(max_examples=60, deadline=None)
+@given(_axes, _angles, st.floats(-360.0, 360.0, allow_nan=False), st.sampled_from(sorted(UNIT_TO_M)))
+def test_transform_is_a_scaled_rotation(axes, declination, rotation, unit):
+    up, north = axes
+    T = model_to_site_matrix(
+        unit, up_axis=up, north_axis=north, north="magnetic", declination_deg=declination, rotation_deg=rotation
+    )
+    R = T[:3, :3] / UNIT_TO_M[unit]
+    np.testing.assert_allclose(R @ R.T, np.eye(3), atol=1e-12)
+    assert np.linalg.det(R) == pytest.approx(1.0)
+    # the file's up axis always lands on Up
+    np.testing.assert_allclose(R @ axis_vector(up), [0.0, 0.0, 1.0], atol=1e-12)
+
+
+@settings(max_examples=60, deadline=None)
+@given(_angles, _angles)
+def test_turns_add(a, b):
+    np.testing.assert_allclose(azimuth_turn_matrix(a) @ azimuth_turn_matrix(b), azimuth_turn_matrix(a + b), atol=1e-12)

@@ -260,3 +260,14 @@ def test_scene_from_model_matches_the_file_route(folder, room):
     assert direct.report.triangles == from_file.report.triangles
     assert direct.target.area == pytest.approx(from_file.target.area, rel=1e-6)
     np.testing.assert_allclose(direct.mesh.bounds, from_file.mesh.bounds, atol=1e-5)
+
+
+def test_glb_scene_y_up(tmp_path, room):
+    from lightpath.site.export import export_glb
+
+    export_glb(room, tmp_path / "room.glb")
+    text = BASE.replace('file = "room.obj"', 'file = "room.glb"').replace('up_axis = "z"', 'up_axis = "y"')
+    scene = load_scene(write(tmp_path, text))  # north_axis defaults to -z for a y-up file (glTF convention)
+    assert scene.target.area == pytest.approx(room.target().area, rel=1e-5)
+    np.testing.assert_allclose(scene.mesh.bounds, room.blocking_mesh().bounds, atol=1e-4)
+    assert scene.warnings == []
