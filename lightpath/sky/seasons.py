@@ -14,8 +14,9 @@ within a few days of its present date (March 20, June 21, September 22/23, Decem
 checks that every one falls inside its Gregorian year), so each year has exactly one of each and the
 definition does not depend on the calendar chosen for printing.  In the Julian calendar, which drifts a
 day in about 128 years against the seasons, the same instant can carry a date in year ``Y + 1``: the
-December solstice of year ``Y`` is dated in January of ``Y + 1`` (Julian) for years before about 1000 BC,
-and in 10,000 BC the Julian dates of all four are about two and a half months later than today's.
+December solstice of year ``Y`` is dated in January (or later) of ``Y + 1`` (Julian) before about 1200 BC
+(the change-over is spread over a few decades by the leap-year cycle), and in 10,000 BC the Julian dates
+of all four run about 80 days later than today's.
 
 Seasons and half-years of year ``Y`` run from the December solstice of ``Y − 1`` to the December solstice
 of ``Y``: ``december_to_march`` (Dec ``Y − 1`` → March ``Y``), ``march_to_june``, ``june_to_september``,
