@@ -148,46 +148,8 @@ def _hash_geometry(*meshes) -> str:
     return digest.hexdigest()
 
 
-def load_scene(path: str | os.PathLike) -> Scene:
-    """Read a scene file and everything it names; return a :class:`Scene` in the site frame.
-
-    Raises :class:`~lightpath.errors.InputError` (one line naming file and key) for any bad input.
-    """
-    import trimesh
-
-    path = Path(path)
-    where = str(path)
-    data = _read_toml(path)
-    check_keys(data, where)
-    base = path.parent
-    site, model_t = data["site"], data["model"]
-    target_t, opening_t = data["target"], data.get("opening")
-    horizon_t, air_t = data.get("horizon", {}), data.get("atmosphere", {})
-    warnings: list[str] = []
-
-    # --- site and air -------------------------------------------------------------------------------------
-    lat = number(site, "site.latitude_deg", where, low=-90.0, high=90.0)
-    lon = number(site, "site.longitude_deg", where, low=-180.0, high=180.0)
-    elevation = number(site, "site.elevation_m", where, 0.0, -500.0, 9000.0)
-    timezone = text(site, "site.timezone", where)
-    if timezone is not None:
-        import zoneinfo
-
-        try:
-            zoneinfo.ZoneInfo(timezone)
-        except (zoneinfo.ZoneInfoNotFoundError, ValueError):
-            raise InputError(f"{where}: 'site.timezone' = {timezone!r} is not an IANA time zone name") from None
-    label = text(site, "site.label", where, path.stem)
-    temperature = number(air_t, "atmosphere.temperature_c", where, 10.0, -90.0, 60.0)
-    pressure = number(air_t, "atmosphere.pressure_mbar", where, None, 0.0, 1100.0)
-    if pressure is None:
-        pressure = round(standard_pressure_mbar(elevation), 2)
-    refraction = choice(air_t, "atmosphere.refraction", where, (*REFRACTION_MODELS, "none"), "bennett1982")
-    observer = Observer(
-        lat, lon, elevation, temperature, pressure, None if refraction == "none" else refraction, timezone
-    )
-
-    # --- model --------------------------------------------------------------------------------------------
+def _model_transform(model_t: dict, where: str, warnings: list[str]) -> tuple[str, np.ndarray]:
+    """The [model] table's unit and file-to-site matrix (appends the no-north warning)."""
     unit = choice(model_t, "model.unit", where, tuple(UNIT_TO_M))
     up_axis = choice(model_t, "model.up_axis", where, AXES)
     north_axis = choice(model_t, "model.north_axis", where, AXES)
@@ -216,6 +178,59 @@ def load_scene(path: str | os.PathLike) -> Scene:
         rotation_deg=number(model_t, "model.rotation_deg", where, 0.0, -360.0, 360.0),
         offset_m=vector3(model_t, "model.offset_m", where, [0.0, 0.0, 0.0]),
     )
+    return unit, transform
+
+
+def load_scene(path: str | os.PathLike) -> Scene:
+    """Read a scene file and everything it names; return a :class:`Scene` in the site frame.
+
+    Raises :class:`~lightpath.errors.InputError` (one line naming file and key) for any bad input.
+    """
+    import trimesh
+
+    path = Path(path)
+    where = str(path)
+    data = _read_toml(path)
+    check_keys(data, where)
+    base = path.parent
+    site, model_t = data["site"], data.get("model", {})
+    target_t, opening_t = data.get("target"), data.get("opening")
+    horizon_t, air_t = data.get("horizon", {}), data.get("atmosphere", {})
+    warnings: list[str] = []
+
+    # --- site and air -------------------------------------------------------------------------------------
+    lat = number(site, "site.latitude_deg", where, low=-90.0, high=90.0)
+    lon = number(site, "site.longitude_deg", where, low=-180.0, high=180.0)
+    elevation = number(site, "site.elevation_m", where, 0.0, -500.0, 9000.0)
+    timezone = text(site, "site.timezone", where)
+    if timezone is not None:
+        import zoneinfo
+
+        try:
+            zoneinfo.ZoneInfo(timezone)
+        except (zoneinfo.ZoneInfoNotFoundError, ValueError):
+            raise InputError(f"{where}: 'site.timezone' = {timezone!r} is not an IANA time zone name") from None
+    label = text(site, "site.label", where, path.stem)
+    temperature = number(air_t, "atmosphere.temperature_c", where, 10.0, -90.0, 60.0)
+    pressure = number(air_t, "atmosphere.pressure_mbar", where, None, 0.0, 1100.0)
+    if pressure is None:
+        pressure = round(standard_pressure_mbar(elevation), 2)
+    refraction = choice(air_t, "atmosphere.refraction", where, (*REFRACTION_MODELS, "none"), "bennett1982")
+    observer = Observer(
+        lat, lon, elevation, temperature, pressure, None if refraction == "none" else refraction, timezone
+    )
+
+    # --- model: a mesh file, or a chamber built from survey numbers ---------------------------------------
+    if "build" in data:
+        from lightpath.site.survey import labeled_from_model, model_from_build
+
+        built = model_from_build(data["build"], where)
+        unit, transform = "m", np.eye(4)  # built models are already in the site frame
+        target_t = target_t if target_t is not None else {"groups": [built.target_part]}
+        if opening_t is None and built.opening_parts:
+            opening_t = {"groups": list(built.opening_parts)}
+    else:
+        unit, transform = _model_transform(model_t, where, warnings)
 
     def read_site_mesh(file_value, key: str) -> LabeledMesh:
         if not isinstance(file_value, str) or not file_value:
@@ -227,8 +242,12 @@ def load_scene(path: str | os.PathLike) -> Scene:
         v, f = apply_transform(raw.vertices, raw.faces, transform)
         return LabeledMesh(v, f, raw.names, raw.path)
 
-    model = read_site_mesh(model_t["file"], "model.file")
-    files = [model.path]
+    if "build" in data:
+        model = labeled_from_model(built, f"{where} [build]")
+        files = [f"(built from [build]: {built.kind})"]
+    else:
+        model = read_site_mesh(model_t["file"], "model.file")
+        files = [model.path]
     keep = np.ones(len(model.faces), dtype=bool)  # model faces that block light
 
     # --- opening ------------------------------------------------------------------------------------------

@@ -73,9 +73,10 @@ SCHEMA: dict[str, tuple[str, ...]] = {
     ),
     "atmosphere": ("temperature_c", "pressure_mbar", "refraction"),
     "tolerances": tuple(TOLERANCE_KEYS),
+    "build": None,  # keys checked by lightpath.site.survey, per builder
 }
 
-#: table -> keys that must be present (tables site, model and target must be present)
+#: table -> keys that must be present (tables site, model and target must be present; with [build]: site, build)
 REQUIRED = {"site": ("latitude_deg", "longitude_deg"), "model": ("file", "unit", "up_axis"), "target": ()}
 
 
@@ -91,10 +92,17 @@ def check_keys(data: dict, where: str) -> None:
             raise InputError(f"{where}: unknown table [{table}]{_suggest(table, SCHEMA)}")
         if not isinstance(body, dict):
             raise InputError(f"{where}: {table!r} must be a table [{table}], not a single value")
+        if SCHEMA[table] is None:
+            continue
         for key in body:
             if key not in SCHEMA[table]:
                 raise InputError(f"{where}: unknown key '{table}.{key}'{_suggest(key, SCHEMA[table])}")
-    for table, keys in REQUIRED.items():
+    required = dict(REQUIRED)
+    if "build" in data:  # a built model: no [model]; target and opening default to the model's parts
+        if "model" in data:
+            raise InputError(f"{where}: give either [model] (a mesh file) or [build] (survey numbers), not both")
+        required = {"site": REQUIRED["site"], "build": ("kind",)}
+    for table, keys in required.items():
         if table not in data:
             raise InputError(f"{where}: missing table [{table}]")
         for key in keys:

@@ -172,7 +172,8 @@ def flat_horizon(dip_deg: float = 0.0) -> HorizonProfile:
     dip = float(dip_deg)
     if not (math.isfinite(dip) and -90.0 <= dip <= 90.0):
         raise InputError(f"horizon dip {dip_deg!r} is outside -90..90 degrees")
-    return HorizonProfile(np.array([0.0]), np.array([-dip]), source="flat" if dip == 0 else f"flat, dip {dip:g} deg")
+    altitude = np.array([0.0 - dip])  # 0.0 - 0.0 is +0.0, not -0.0
+    return HorizonProfile(np.array([0.0]), altitude, source="flat" if dip == 0 else f"flat, dip {dip:g} deg")
 
 
 def horizon_dip_deg(height_m: np.ndarray | float, *, refraction: bool = True) -> np.ndarray:
