@@ -159,6 +159,20 @@ def test_shapes_and_source():
     np.testing.assert_allclose(h.december_to_june_days + h.june_to_december_days, 365.2422, atol=0.02)
 
 
+def test_progress_chunks_give_the_same_instants(monkeypatch):
+    import lightpath.sky.seasons as seasons
+
+    monkeypatch.setattr(seasons, "PROGRESS_CHUNK_YEARS", 100)
+    years = np.arange(-5000, -4750)
+    calls = []
+    q = quarter_days(years, progress=lambda done, total: calls.append((done, total)))
+    ref = quarter_days(years)
+    assert calls == [(100, 250), (200, 250), (250, 250)]
+    for name in QUARTER_NAMES:
+        np.testing.assert_allclose(q.jd_tt(name), ref.jd_tt(name), atol=1e-7)
+    assert q.source == ref.source
+
+
 def test_solar_longitude_instant_any_target():
     jd, _ = solar_longitude_instant(np.array([45.0, 315.0]), np.array([2460436.0, 2460345.0]), source="vsop87")
     from lightpath.sky.sun import geocentric_sun

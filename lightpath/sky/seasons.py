@@ -38,6 +38,7 @@ Meeus, J. (1998). *Astronomical Algorithms*, 2nd ed., Willmann-Bell, ch. 27 "Equ
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -47,6 +48,7 @@ from lightpath.errors import InputError
 from lightpath.sky.calendar import julian_day
 
 __all__ = [
+    "PROGRESS_CHUNK_YEARS",
     "QUARTER_LONGITUDES_DEG",
     "QUARTER_NAMES",
     "YEAR_MAX",
@@ -85,6 +87,9 @@ _MAX_STEPS = 12
 # Long runs of years: solve every _ANCHOR_STEP_YEARS-th year first and interpolate the rest's guesses.
 _ANCHOR_STEP_YEARS = 32
 _TROPICAL_YEAR_DAYS = 365.2422  # only for starting guesses
+
+#: Years solved per chunk when :func:`quarter_days` reports progress.
+PROGRESS_CHUNK_YEARS = 1000
 
 
 def _geocentric_longitude_deg(jd_tt: NDArray, source: str) -> tuple[NDArray, NDArray, str]:
@@ -245,7 +250,9 @@ def _quarter_days_unchecked(years: NDArray, source: str) -> QuarterDays:
     return QuarterDays(y[()] if y.ndim == 0 else y, *cols, source=used)
 
 
-def quarter_days(years: ArrayLike, source: str = "auto") -> QuarterDays:
+def quarter_days(
+    years: ArrayLike, source: str = "auto", progress: Callable[[int, int], None] | None = None
+) -> QuarterDays:
     """Equinoxes and solstices of the given years: instants (JD TT) when the apparent longitude is 0/90/180/270°.
 
     Parameters
@@ -254,6 +261,8 @@ def quarter_days(years: ArrayLike, source: str = "auto") -> QuarterDays:
         The quarter days of ``Y`` are those falling in year ``Y`` of the proleptic Gregorian calendar
         (see the module notes for the Julian calendar).
     source : Sun position source for :func:`lightpath.sky.sun.geocentric_sun` (``"auto"``, ``"jpl"``, ``"vsop87"``).
+    progress : optional ``progress(done, total)`` callback, in years; when given, the years are solved in
+        chunks of :data:`PROGRESS_CHUNK_YEARS` (same results, the source is chosen once for all of them).
 
     Returns
     -------
@@ -269,7 +278,23 @@ def quarter_days(years: ArrayLike, source: str = "auto") -> QuarterDays:
     ----------
     Meeus (1998) ch. 27; the Sun's longitude from :mod:`lightpath.sky.sun`.
     """
-    return _quarter_days_unchecked(_check_years(years), source)
+    y = _check_years(years)
+    if progress is None or y.size <= PROGRESS_CHUNK_YEARS:
+        q = _quarter_days_unchecked(y, source)
+        if progress is not None:
+            progress(y.size, y.size)
+        return q
+    flat = y.reshape(-1)
+    source = concrete_source(_gregorian_guesses(np.array([flat.min(), flat.max()])), source)
+    cols: list[list[NDArray]] = [[], [], [], []]
+    used = ""
+    for lo in range(0, flat.size, PROGRESS_CHUNK_YEARS):
+        part = _quarter_days_unchecked(flat[lo : lo + PROGRESS_CHUNK_YEARS], source)
+        for i, name in enumerate(QUARTER_NAMES):
+            cols[i].append(np.atleast_1d(part.jd_tt(name)))
+        used = part.source
+        progress(min(lo + PROGRESS_CHUNK_YEARS, flat.size), flat.size)
+    return QuarterDays(y, *(np.concatenate(c).reshape(y.shape) for c in cols), source=used)
 
 
 @dataclass(frozen=True)
