@@ -74,3 +74,22 @@ def test_bad_worker_count_is_input_error():
 def test_empty_tasks():
     assert run_draws(abs, []) == []
     assert run_draws(abs, [], workers=2) == []
+
+
+def test_framing_test_is_the_same_serial_pool_and_dask(dask_client):
+    """A real framing test (engine + null model): serial, 2 local workers and a dask LocalCluster agree exactly."""
+    from test_study_geometry import EPOCH, SITE, division_of, slit_window
+
+    from lightpath.commands._common import to_jsonable
+    from lightpath.study.framing import framing_test
+    from lightpath.study.light_days import LightDays
+    from lightpath.study.uncertainty import Tolerances
+
+    div = division_of("cross_quarter_nov")
+    window, axis = slit_window(round(div.sunrise_azimuth_deg, 2))
+    light = LightDays(window, SITE, names=("cross_quarter_nov", "march_equinox"), span_days=15)
+    tol = Tolerances(opening_azimuth_deg=1.5, opening_tilt_deg=0.5, target_position_m=0.03, temperature_c=5.0)
+    common = dict(year=EPOCH, axis_enu=axis, tolerances=tol, within_days=2, draws=16, null_draws=16, seed=2)
+    serial = to_jsonable(framing_test(light, **common))
+    assert to_jsonable(framing_test(light, workers=2, **common)) == serial
+    assert to_jsonable(framing_test(light, client=dask_client, **common)) == serial
