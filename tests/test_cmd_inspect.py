@@ -85,3 +85,17 @@ def test_bad_inputs_exit_2(tmp_path, capsys, old, new, word):
     assert main(["inspect", str(tmp_path / "s.toml")]) == 2
     err = capsys.readouterr().err
     assert word in err and len(err.strip().splitlines()) == 1, err
+
+
+def test_leak_check_finds_a_missing_roof(tmp_path, capsys):
+    from lightpath.site.builders import ChamberModel
+
+    room = window_room(90.0)
+    roofless = ChamberModel("room", {k: v for k, v in room.parts.items() if k != "roof"}, ("window",), "target",
+                            90.0, room.local_to_site)  # fmt: skip
+    export_obj(roofless, tmp_path / "room.obj")
+    (tmp_path / "s.toml").write_text(GOOD)
+    assert main(["inspect", str(tmp_path / "s.toml"), "--json", "--samples", "200"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["leak_check"]["leak_share"] > 0.05
+    assert any(w.startswith("light leaks") for w in data["warnings"])

@@ -74,6 +74,12 @@ def format_summary(s: dict) -> str:
     )
     if s["tolerances"]:
         lines.append("tolerance " + ", ".join(f"{k} {v:g}" for k, v in s["tolerances"].items()))
+    if "leak_check" in s:
+        lc = s["leak_check"]
+        lines.append(
+            f"leaks     {lc['rays']} random rays from the target: {lc['escape_share']:.2%} reach the sky, "
+            f"{lc['leak_share']:.2%} without crossing the opening"
+        )
     lines += [f"warning   {w}" for w in s["warnings"]] or ["warnings  none"]
     return "\n".join(lines)
 
@@ -91,6 +97,13 @@ def run(args: argparse.Namespace) -> int:
     if scene.report.target_area_m2 > 0:
         samples = sample_target(scene.target, count=args.samples, seed=args.seed)
     summary = scene_summary(scene, samples)
+    if samples is not None and scene.opening is not None:
+        from lightpath.site.checks import leak_fraction, leak_warnings
+
+        count = min(len(samples), 300)
+        leak, escape = leak_fraction(scene.mesh, scene.opening, samples.points_m[:count], samples.normals[:count])
+        summary["leak_check"] = {"rays": count * 32, "leak_share": leak, "escape_share": escape}
+        summary["warnings"] += leak_warnings(leak)
     if args.json:
         print_json(summary)
     else:

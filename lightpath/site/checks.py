@@ -19,6 +19,8 @@ __all__ = [
     "SMALLEST_PLAUSIBLE_M",
     "extent_warnings",
     "facing_warnings",
+    "leak_fraction",
+    "leak_warnings",
     "north_warnings",
     "target_area_warnings",
 ]
@@ -106,4 +108,36 @@ def facing_warnings(target, opening) -> list[str]:
     return [
         "the target faces away from every opening (all its normals point away from the opening); "
         "set target.flip_normals = true if the file's winding is reversed"
+    ]
+
+
+def leak_fraction(mesh, opening, points_m: np.ndarray, normals: np.ndarray, *, rays_per_point: int = 32, seed: int = 0):
+    """Share of random rays from target points that escape ``mesh`` without crossing ``opening``.
+
+    Rays leave each point in uniformly random directions over the hemisphere its normal faces (a fixed
+    random-number-generator ``seed``).  A closed model gives 0; holes in a scan give more.  Returns
+    (leak share, escape share), both 0..1.
+    """
+    rng = np.random.default_rng(seed)
+    origins = np.repeat(np.asarray(points_m, float), rays_per_point, axis=0)
+    n = np.repeat(np.asarray(normals, float), rays_per_point, axis=0)
+    d = rng.normal(size=origins.shape)
+    d /= np.linalg.norm(d, axis=1)[:, None]
+    d = np.where(np.einsum("ij,ij->i", d, n)[:, None] < 0, -d, d)
+    escaped = ~np.asarray(mesh.ray.intersects_any(origins, d))
+    through = np.asarray(opening.ray.intersects_any(origins, d)) if opening is not None else np.zeros(len(d), bool)
+    return float(np.mean(escaped & ~through)), float(np.mean(escaped))
+
+
+def leak_warnings(leak_share: float, threshold: float = 1e-3) -> list[str]:
+    """A warning when more than ``threshold`` of the random rays leak (see :func:`leak_fraction`).
+
+    >>> leak_warnings(0.0), leak_warnings(0.02)[0][:30]
+    ([], 'light leaks: 2.0% of random ra')
+    """
+    if leak_share <= threshold:
+        return []
+    return [
+        f"light leaks: {leak_share:.1%} of random rays from the target escape without crossing the opening "
+        "(holes in the mesh, or a second opening not named)"
     ]
