@@ -173,6 +173,20 @@ def test_progress_chunks_give_the_same_instants(monkeypatch):
     assert q.source == ref.source
 
 
+def test_longitude_rate_model_against_central_differences():
+    # Kepler's second law rate used for the Newton steps, against central differences of our own Sun
+    # (internal consistency: it sets the convergence, not the accuracy).
+    from lightpath.sky.seasons import longitude_rate_deg_per_day
+    from lightpath.sky.sun import geocentric_sun
+
+    for t0 in (2451545.0, 2451545.0 - 5000 * 365.25, 2451545.0 - 11999 * 365.25):
+        t = t0 + np.linspace(0.0, 365.0, 200)
+        ahead, behind = geocentric_sun(t + 0.01, "vsop87"), geocentric_sun(t - 0.01, "vsop87")
+        dlon = np.mod(ahead.ecliptic_longitude_deg - behind.ecliptic_longitude_deg + 180.0, 360.0) - 180.0
+        rate = longitude_rate_deg_per_day(geocentric_sun(t, "vsop87").distance_au)
+        assert np.abs(rate / (dlon / 0.02) - 1.0).max() < 1e-3
+
+
 def test_solar_longitude_instant_any_target():
     jd, _ = solar_longitude_instant(np.array([45.0, 315.0]), np.array([2460436.0, 2460345.0]), source="vsop87")
     from lightpath.sky.sun import geocentric_sun
