@@ -75,6 +75,14 @@ def test_nrel_spa_example_through_the_command(capsys):
     assert row["azimuth_deg"] == pytest.approx(194.34024, abs=0.002)
 
 
+def test_local_apparent_date_far_east(capsys):
+    # At 170° E, LAT 08:00 on 3200 BC-06-21 is about 20:40 UT on the day before (UT = LAT - 170°/15° - EoT).
+    row = _json(capsys, ["sun", "--site=-40,170", "--at", "3200 BC-06-21T08:00 LAT", "--json"])
+    assert row["local_apparent_date"] == "-3199-06-21"
+    assert row["date"] == "-3199-06-20"
+    assert row["local_apparent_time"] == "08:00:00"
+
+
 def test_run_with_to_and_step(capsys):
     rows = _json(
         capsys,

@@ -171,6 +171,9 @@ def _row_chunks(jd_tt: np.ndarray, observer: Observer, source: str, calendar: st
             uncertain = np.zeros(part.shape, dtype=bool)  # the user fixed ΔT
         lat_text = format_time_of_day(np.asarray(pos.local_apparent_time_h) / 24.0, seconds=True)
         dates = format_date(jd_ut, calendar)
+        # Local apparent date: UT + longitude/15° + equation of time (Meeus 1998 ch. 28).
+        jd_lat = jd_ut + observer.longitude_deg / 360.0 + np.asarray(pos.equation_of_time_min) / 1440.0
+        lat_dates = format_date(jd_lat, calendar)
         ut_text = format_instant(jd_ut, calendar)
         used = calendar_for(jd_ut, calendar)
         columns = {
@@ -195,6 +198,7 @@ def _row_chunks(jd_tt: np.ndarray, observer: Observer, source: str, calendar: st
             row["ut"] = str(ut_text[i])
             row["local_apparent_time"] = str(lat_text[i])
             row["date"] = str(dates[i])
+            row["local_apparent_date"] = str(lat_dates[i])
             row["calendar"] = str(used[i])
             row["source"] = str(pos.source)
             row["ut_date_uncertain"] = bool(uncertain[i])
