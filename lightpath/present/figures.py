@@ -143,7 +143,7 @@ def light_calendar_figure(
     fig = new_figure(9.5, 5.2)
     ax = fig.add_subplot()
     lit = np.where(value > 0, value, np.nan)
-    mesh = ax.pcolormesh(day_edges, hour_edges, lit.T, cmap="cividis", shading="flat", vmin=0.0)
+    mesh = ax.pcolormesh(day_edges, hour_edges, lit.T, cmap="cividis", shading="flat", vmin=0.0, rasterized=True)
     ax.set_facecolor("#f4f4f4")
     rows, cols = np.nonzero(value > 0)
     if cols.size:

@@ -34,7 +34,7 @@ from lightpath.present.report import ReportFigure, ReportTable, write_report
 from lightpath.present.visits import VISIT_COLUMNS, visit_entries, visit_rows
 from lightpath.present.window_figures import light_patch_figure, sky_window_figure, window_outlines
 from lightpath.sky.calendar import year_label
-from lightpath.study.visit import VisitPlan, local_day_start, plan_visit
+from lightpath.study.visit import VisitPlan, local_day_start, visit_scene
 
 __all__ = ["ReportOutput", "make_report", "patch_frames", "site_summary", "sun_tracks"]
 
@@ -163,7 +163,7 @@ def make_report(
     drift_years : years for the epoch-drift figure (two or more), or None to leave it out.
     criterion, scheme, parts, samples, seed, source, resolution_deg, cache_dir : passed to the engine.
     formats : figure files beside the report (``png`` always; ``svg`` optional).
-    progress : called with 1 after each stage (7 stages, 3 more with a visit year, 1 more with drift years).
+    progress : called with 1 after each stage (6 stages, 3 more with a visit year, 2 more with drift years).
     """
     import time
 
@@ -210,13 +210,10 @@ def make_report(
         first = jd_from_local_date(_dt.date(visit_year, 1, 1), zone)
         last = jd_from_local_date(_dt.date(visit_year + 1, 1, 1), zone)
 
-        def altitude(jd_ut, observer):
-            from lightpath.sky.deltat import tt_from_ut
-            from lightpath.sky.sun import sun_position
-
-            return sun_position(tt_from_ut(jd_ut), observer, source=source).altitude_deg
-
-        plan = plan_visit(scene, first, last, scan=scan, altitude_fn=altitude, progress=step)
+        plan = visit_scene(
+            scene, first, last, criterion=criterion, scheme=scheme, parts=parts, seed=seed, source=source,
+            window=window, progress=step,
+        )  # fmt: skip
         seconds["visit"] = round(time.perf_counter() - clock, 3)
         clock = time.perf_counter()
 

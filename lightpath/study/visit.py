@@ -47,6 +47,7 @@ __all__ = [
     "observer_with_refraction_scaled",
     "plan_visit",
     "sunrise_sunset",
+    "visit_scene",
 ]
 
 #: Scatter (1σ) of refraction at sunrise/sunset, degrees (Sampson et al. 2003).
@@ -279,4 +280,61 @@ def plan_visit(
         latitude_deg=observer.latitude_deg,
         longitude_deg=observer.longitude_deg,
         notes=notes,
+    )
+
+
+def visit_scene(
+    scene: Any,
+    first_jd_ut: float,
+    last_jd_ut: float,
+    *,
+    criterion: str = "first-gleam",
+    scheme: str = "longitude",
+    parts: int = 8,
+    samples: int = 400,
+    seed: int = 0,
+    source: str = "auto",
+    resolution_deg: float = 0.1,
+    cache_dir: Any = None,
+    refraction_sigma_deg: float = REFRACTION_SIGMA_DEG,
+    window: Any = None,
+    progress: Callable[[int], None] | None = None,
+) -> VisitPlan:
+    """:func:`plan_visit` with the engine: one sky window, scanned for each refraction case.
+
+    ``scene`` is a :class:`lightpath.site.scene.Scene` or a scene file's path; ``window`` an
+    already prepared :class:`lightpath.light.window.SkyWindow` of it (else one is made with
+    ``samples``, ``seed``, ``resolution_deg`` and ``cache_dir``).  Sunrise and sunset use
+    :func:`lightpath.sky.sun.sun_position` with the model ΔT.
+    """
+    from lightpath.light.scan import prepare_window, scan_window
+    from lightpath.sky.deltat import tt_from_ut
+    from lightpath.sky.sun import sun_position
+
+    if not hasattr(scene, "observer"):
+        from lightpath.site.scene import load_scene
+
+        scene = load_scene(scene)
+    if window is None:
+        window = prepare_window(scene, samples=samples, seed=seed, resolution_deg=resolution_deg, cache_dir=cache_dir)
+    label = str(getattr(scene, "label", "") or getattr(scene, "path", "scene"))
+    warnings = list(getattr(scene, "warnings", []))
+
+    def scan(case_scene: Any, years: Sequence[int]) -> ScanResult:
+        result = scan_window(window, case_scene.observer, years, criterion=criterion, scheme=scheme, parts=parts,
+                             source=source, scene_label=label, seed=seed)  # fmt: skip
+        notes = list(result.notes) + [w for w in warnings if w not in result.notes]
+        return ScanResult(result.scene, result.settings, result.target_area_m2, result.years, notes)
+
+    def altitude(jd_ut: np.ndarray, observer: Observer) -> np.ndarray:
+        return np.asarray(sun_position(tt_from_ut(jd_ut), observer, source=source).altitude_deg, dtype=float)
+
+    return plan_visit(
+        scene,
+        first_jd_ut,
+        last_jd_ut,
+        scan=scan,
+        altitude_fn=altitude,
+        refraction_sigma_deg=refraction_sigma_deg,
+        progress=progress,
     )

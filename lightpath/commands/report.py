@@ -1,0 +1,139 @@
+"""``lightpath report SCENE.toml --year Y --out DIR``: a self-contained HTML report with its tables and figures.
+
+Examples (shell)::
+
+    lightpath report site.toml --year "3200 BC" --out report/
+    lightpath report site.toml --year -3199 --visit-year 2027 --drift "3500 BC:2900 BC:100" --out report/
+
+Writes ``DIR/report.html`` (figures embedded, opens with no network), ``events.csv``,
+``divisions.csv``, ``tables.json``, ``figures/*.png|svg`` and, with ``--visit-year``,
+``visit.csv`` and ``visit.ics`` — each file atomically.  See ``docs/reports.md``.
+
+>>> import argparse
+>>> p = argparse.ArgumentParser(); add_arguments(p)
+>>> a = p.parse_args(["s.toml", "--year", "3200 BC", "--out", "r"])
+>>> a.samples, a.resolution, a.criterion
+(400, 0.1, 'first-gleam')
+"""
+
+from __future__ import annotations
+
+import argparse
+
+from lightpath.commands._common import add_output_options, print_json, progress_bar
+from lightpath.errors import InputError
+
+__all__ = ["HELP", "NAME", "add_arguments", "add_engine_options", "engine_options", "run"]
+
+NAME = "report"
+HELP = "write a self-contained HTML report (tables, figures, cautions) with CSV/JSON tables and figure files"
+
+
+def add_engine_options(parser: argparse.ArgumentParser, samples: int = 400) -> None:
+    """The engine's options shared by ``report`` and ``visit``."""
+    from lightpath.light.disc import CRITERIA
+    from lightpath.sky.divisions import SCHEMES
+    from lightpath.sky.sources import SOURCES
+
+    parser.add_argument(
+        "--criterion",
+        choices=tuple(CRITERIA),
+        default="first-gleam",
+        help="how much of the Sun's disc a point must see to count as lit (default first-gleam)",
+    )
+    parser.add_argument(
+        "--scheme",
+        choices=SCHEMES,
+        default="longitude",
+        help="definition of the divisions of the year (default longitude)",
+    )
+    parser.add_argument("--parts", type=int, default=8, metavar="N", help="divisions of the year (default 8)")
+    parser.add_argument(
+        "--samples", type=int, default=samples, metavar="K", help=f"points sampled on the target (default {samples})"
+    )
+    parser.add_argument("--seed", type=int, default=0, help="random-number-generator seed of the samples (default 0)")
+    parser.add_argument(
+        "--resolution",
+        type=float,
+        default=0.1,
+        metavar="DEG",
+        help="sky-window cell size, degrees (default 0.1: start/end times within about 15 s)",
+    )
+    parser.add_argument("--source", choices=SOURCES, default="auto", help="Sun position source (default auto)")
+    parser.add_argument("--cache", metavar="DIR", help="folder to keep sky windows in between runs")  # fmt: skip
+
+
+def engine_options(args: argparse.Namespace) -> dict:
+    """The engine keyword arguments from parsed options, checked."""
+    if args.samples < 1 or args.samples > 1_000_000:
+        raise InputError(f"--samples: {args.samples} is not a whole number in 1..1000000")
+    if not 0.005 <= args.resolution <= 2.0:
+        raise InputError(f"--resolution: {args.resolution:g} is outside 0.005..2 degrees")
+    return dict(
+        criterion=args.criterion, scheme=args.scheme, parts=args.parts, samples=args.samples, seed=args.seed,
+        source=args.source, resolution_deg=args.resolution, cache_dir=args.cache,
+    )  # fmt: skip
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Options of ``lightpath report``."""
+    parser.add_argument("scene", metavar="SCENE.toml", help="the scene file")
+    parser.add_argument("--year", required=True, metavar="Y", help="year of the report: -3199, '3200 BC' or 'AD 33'")
+    parser.add_argument("--visit-year", metavar="Y", help="a modern year to plan a visit in (civil times, visit.ics)")
+    parser.add_argument(
+        "--drift", metavar="START:END:STEP", help="years for the epoch-drift figure, e.g. -3500:-2900:100"
+    )
+    parser.add_argument("--out", required=True, metavar="DIR", help="folder to write the report into")
+    parser.add_argument("--no-svg", action="store_true", help="write the figures as PNG only")
+    add_engine_options(parser)
+    add_output_options(parser)
+
+
+def _visit_year(text: str | None) -> int | None:
+    if text is None:
+        return None
+    from lightpath.present.civil import CIVIL_FIRST_YEAR
+    from lightpath.sky.calendar import year_from_label
+    from lightpath.sky.seasons import YEAR_MAX
+
+    year = year_from_label(text, what="--visit-year")
+    if not CIVIL_FIRST_YEAR <= year <= YEAR_MAX:
+        raise InputError(f"--visit-year: {text!r} is outside {CIVIL_FIRST_YEAR}..{YEAR_MAX} (civil clock times)")
+    return year
+
+
+def stage_count(visit: bool, drift: bool) -> int:
+    """How many times the report builder reports progress."""
+    return 6 + (3 if visit else 0) + (2 if drift else 0)
+
+
+def run(args: argparse.Namespace) -> int:
+    from lightpath.light.scan import parse_years
+    from lightpath.present.scene_report import make_report
+    from lightpath.sky.calendar import year_from_label
+
+    year = year_from_label(args.year, what="--year")
+    visit_year = _visit_year(args.visit_year)
+    drift = parse_years(args.drift, option="--drift") if args.drift else None
+    options = engine_options(args)
+    formats = ("png",) if args.no_svg else ("png", "svg")
+    with progress_bar("report", stage_count(visit_year is not None, drift is not None), args.quiet) as advance:
+        out = make_report(args.scene, year, out_dir=args.out, visit_year=visit_year, drift_years=drift,
+                          formats=formats, progress=advance, **options)  # fmt: skip
+    if args.json:
+        print_json(
+            {
+                "scene": out.scan.scene,
+                "files": {name: str(path) for name, path in out.paths.items()},
+                "events": sum(len(y.events) for y in out.scan.years),
+                "visit_events": None if out.visit is None else len(out.visit.events),
+                "seconds": out.seconds,
+            }
+        )
+    else:
+        events = sum(len(y.events) for y in out.scan.years)
+        print(f"{out.scan.scene}: {events} light event(s) in {args.year}")
+        if out.visit is not None:
+            print(f"  visit {visit_year}: {len(out.visit.events)} event(s); calendar file {out.paths['visit.ics']}")
+        print(f"  report: {out.paths['report.html']}")
+    return 0
