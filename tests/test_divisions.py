@@ -186,6 +186,7 @@ def test_odd_parts():
         ((2000, "time", 1), {}, "parts"),
         ((2000, "time", 2.5), {}, "parts"),
         ((2000, "moon", 4), {}, "scheme"),
+        (([2000, 2001], "time", 4), {}, "year"),
         ((3001, "time", 4), {}, "year"),
         ((-10001, "time", 4), {}, "year"),
         ((2000, "days", 400), {}, "parts"),

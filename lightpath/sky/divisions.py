@@ -164,6 +164,8 @@ def _check(year, scheme, parts, anchor, calendar, observer) -> list[str]:
         raise InputError(f"calendar {calendar!r} is not one of {', '.join(CALENDARS)}")
     if observer is not None and not isinstance(observer, Observer):
         raise InputError("observer must be a lightpath.sky.observer.Observer")
+    if np.ndim(year) != 0:
+        raise InputError(f"year {year!r} must be a single whole year (astronomical numbering, 0 = 1 BC)")
     _check_years(year)
     return schemes
 
@@ -212,7 +214,7 @@ def _scheme_instants(scheme, parts, anchor, solstices, source, lon_deg):
         first = f <= 0.5
         target = np.where(first, dec_d0 + 2.0 * f * (dec_j - dec_d0), dec_j + (2.0 * f - 1.0) * (dec_d1 - dec_j))
         jd = np.empty(parts)
-        inner1, inner2 = first & (f > 0), ~first
+        inner1, inner2 = (f > 0.0) & (f < 0.5), ~first
         jd[inner1] = _declination_instants(
             target[inner1], np.full(inner1.sum(), d0), np.full(inner1.sum(), j), True, source
         )
