@@ -45,6 +45,32 @@ def test_longitude_scheme_hits_the_quarter_days():
     np.testing.assert_allclose(np.mod(np.array(lon) - [270.0, 30.0, 150.0] + 180.0, 360.0) - 180.0, 0.0, atol=1e-4)
 
 
+@pytest.mark.filterwarnings("ignore:The file finals2000A.all has expired")
+def test_longitude_eighths_against_skyfield():
+    # skyfield 1.55 with JPL DE421 (skyfield-data): instants when the apparent longitude of date (its
+    # ecliptic_frame, as almanac.seasons uses) crosses a multiple of 45°, 1999-12 to 2003-12, by find_discrete.
+    import skyfield_data
+    from skyfield import almanac
+    from skyfield.api import Loader
+    from skyfield.framelib import ecliptic_frame
+
+    load = Loader(skyfield_data.get_skyfield_data_path(), verbose=False)
+    ts = load.timescale(builtin=True)
+    eph = load("de421.bsp")
+    earth, sun = eph["earth"], eph["sun"]
+
+    def octant(t):
+        _, lon, _ = earth.at(t).observe(sun).apparent().frame_latlon(ecliptic_frame)
+        return (lon.degrees // 45.0).astype(int) % 8
+
+    octant.step_days = 20
+    t, which = almanac.find_discrete(ts.tt(1999, 12, 1), ts.tt(2003, 12, 1), octant)
+    ours = [d for y in (2000, 2001, 2002, 2003) for d in divisions(y, "longitude", 8)]
+    assert list(which) == [(6 + i) % 8 for i in range(len(ours))]
+    # measured 0.04 s largest difference; held to 1 s (the bound for quarter days is one minute)
+    np.testing.assert_allclose([d.jd_tt for d in ours], t.tt, atol=1.0 / 1440.0 / 60.0)
+
+
 def test_time_scheme_is_recursive_midpoints_of_each_half():
     q_prev, q = quarter_days(-3199), quarter_days(-3198)
     d0, j, d1 = float(q_prev.december_solstice_jd_tt), float(q.june_solstice_jd_tt), float(q.december_solstice_jd_tt)
