@@ -50,8 +50,12 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--site", required=True, metavar="LAT,LON[,ELEV_M]", help="degrees north, degrees east, metres")
     parser.add_argument("--year", required=True, metavar="Y", help="astronomical year (-3199) or '3200 BC' / 'AD 33'")
     parser.add_argument("--parts", type=int, default=8, metavar="N", help="number of divisions, N >= 2 (default 8)")
-    parser.add_argument("--scheme", choices=(*SCHEMES, "all"), default="all", help="definition of the divisions")
-    parser.add_argument("--anchor", choices=ANCHORS, default="december", help="solstice the days scheme counts from")
+    parser.add_argument(
+        "--scheme", choices=(*SCHEMES, "all"), default="all", help="definition of the divisions (default all)"
+    )
+    parser.add_argument(
+        "--anchor", choices=ANCHORS, default="december", help="solstice the days scheme counts from (default december)"
+    )
     parser.add_argument("--horizon", metavar="FILE", help="skyline CSV with header azimuth_deg,altitude_deg")
     parser.add_argument("--calendar", choices=CALENDARS, default="auto", help="calendar of the dates (default auto)")
     parser.add_argument("--source", choices=SOURCES, default="auto", help="Sun position source (default auto)")
