@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import re
 import sys
 from collections.abc import Sequence
 
@@ -55,10 +56,31 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+_NEGATIVE_VALUE = re.compile(r"^-\d")
+
+
+def _join_negative_values(argv: Sequence[str]) -> list[str]:
+    """``--site -40,170`` → ``--site=-40,170`` so argparse does not take a negative value for an option.
+
+    Southern latitudes, western longitudes and years BC written as negative numbers
+    are ordinary values here; no lightpath option is spelled like a negative number.
+
+    >>> _join_negative_values(["scan", "x.toml", "--years", "-3500:-2500:50", "--json"])
+    ['scan', 'x.toml', '--years=-3500:-2500:50', '--json']
+    """
+    out: list[str] = []
+    for token in argv:
+        if _NEGATIVE_VALUE.match(token) and out and out[-1].startswith("--") and "=" not in out[-1]:
+            out[-1] = f"{out[-1]}={token}"
+        else:
+            out.append(token)
+    return out
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     parser = build_parser()
-    args = parser.parse_args(argv)
+    args = parser.parse_args(_join_negative_values(sys.argv[1:] if argv is None else list(argv)))
     if not getattr(args, "_run", None):
         parser.print_help()
         return EXIT_OK
