@@ -109,3 +109,25 @@ def test_refraction_follows_the_observer():
     assert np.all(pb.altitude_deg[up] > p0.altitude_deg[up])
     assert np.all(ps.altitude_deg[up] > p0.altitude_deg[up])
     assert np.allclose(pb.azimuth_deg, p0.azimuth_deg)
+
+
+@pytest.mark.parametrize("source", ["jpl", "vsop87"])
+def test_daily_instants_through_chebyshev_blocks_match_direct(source, monkeypatch):
+    # Three years of daily instants use the Chebyshev blocks (VSOP87 slow band, precession, nutation);
+    # compare with every part summed directly at every instant.
+    from lightpath.sky import sources as sources_module
+
+    start = 2415100.5 if source == "jpl" else 625500.5  # 1900 / 3000 BC
+    jd = start + np.arange(0.0, 1096.0, 1.0) + 0.37
+    obs = Observer(45.0, 7.0, refraction=None)
+    fast = sun_position(jd, obs, source=source, delta_t_s=64.0)
+
+    def direct(func, t, *args, **kwargs):
+        return func(np.asarray(t, dtype=float).reshape(-1)).reshape(np.shape(t) + (-1,))
+
+    monkeypatch.setattr(sun_module, "chebyshev_blocks", direct)
+    monkeypatch.setattr(sources_module, "chebyshev_blocks", direct)
+    slow = sun_position(jd, obs, source=source, delta_t_s=64.0)
+    d_alt = np.abs(fast.altitude_deg - slow.altitude_deg) * 3600
+    d_az = np.abs(fast.azimuth_deg - slow.azimuth_deg) * np.cos(np.radians(slow.altitude_deg)) * 3600
+    assert np.max(d_alt) < 0.001 and np.max(d_az) < 0.001

@@ -41,6 +41,7 @@ from numpy.typing import NDArray
 __all__ = ["chebyshev_blocks", "lagrange_on_grid"]
 
 Func = Callable[[NDArray], NDArray]
+_CLENSHAW_CHUNK = 8192
 
 
 def _finite_split(t: NDArray) -> tuple[NDArray, NDArray]:
@@ -112,15 +113,19 @@ def chebyshev_blocks(func: Func, t: NDArray, block_days: float, degree: int, *, 
     samples = np.asarray(func((centre[:, None] + half * xj[None, :]).reshape(-1)))
     q = samples.shape[-1]
     coeffs = np.einsum("kj,bjq->bkq", to_coeff, samples.reshape(blocks.size, n, q))
-    u = (tt - centre[inverse]) / half  # -1 ≤ u < 1
-    c = coeffs[inverse]  # (m, n, q)
-    # Clenshaw recurrence (Press et al. 2007, eq. 5.8.11)
-    b1 = np.zeros((tt.size, q))
-    b2 = np.zeros((tt.size, q))
-    two_u = (2.0 * u)[:, None]
-    for k in range(n - 1, 0, -1):
-        b1, b2 = two_u * b1 - b2 + c[:, k], b1
-    out = u[:, None] * b1 - b2 + c[:, 0]
+    out = np.empty((tt.size, q))
+    for i in range(0, tt.size, _CLENSHAW_CHUNK):  # chunks keep the gathered coefficients small
+        sl = slice(i, i + _CLENSHAW_CHUNK)
+        inv = inverse[sl]
+        u = (tt[sl] - centre[inv]) / half  # -1 ≤ u < 1
+        c = coeffs[inv]  # (m, n, q)
+        # Clenshaw recurrence (Press et al. 2007, eq. 5.8.11)
+        b1 = np.zeros((u.size, q))
+        b2 = np.zeros((u.size, q))
+        two_u = (2.0 * u)[:, None]
+        for k in range(n - 1, 0, -1):
+            b1, b2 = two_u * b1 - b2 + c[:, k], b1
+        out[sl] = u[:, None] * b1 - b2 + c[:, 0]
     return _scatter(out, flat, ok, np.shape(t))
 
 

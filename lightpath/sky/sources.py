@@ -65,11 +65,13 @@ SOURCES = ("auto", "jpl", "vsop87")
 VSOP87_NAME = "VSOP87D (Bretagnon & Francou 1988)"
 
 _C_AU_PER_DAY = erfa.DC  # speed of light, au/day
-# VSOP87 is evaluated on Chebyshev blocks for dense sets: 32-day blocks, degree 14.
-# Its fastest terms (the Earth about the Earth–Moon barycentre, 27–30 days; 2D, 15 days)
-# are held there to < 0.001″ (measured 0.0004″ in tests/test_sun_vsop87.py).
-_VSOP_BLOCK_DAYS = 32.0
-_VSOP_DEGREE = 14
+# VSOP87's slow band (periods > 76 days) is sampled on 512-day Chebyshev blocks of degree 48 when that
+# saves work, its fast band (94 terms: the Earth about the Earth–Moon barycentre, a few Mercury terms)
+# is summed at every instant; the precession matrix on 512-day blocks of degree 6.
+# Interpolation error < 0.001″ (tests/test_sun_vsop87.py).
+_SLOW_BLOCK_DAYS = 512.0
+_SLOW_DEGREE = 48
+_MATRIX_DEGREE = 6
 
 
 def long_term_span_jd_tt() -> tuple[float, float]:
@@ -97,11 +99,15 @@ class SunSource:
         return vsop87_sun_gcrs_apparent_au(jd_tt)
 
 
-def _vsop_columns(jd: NDArray) -> NDArray:
-    """(n, 6): VSOP87D L, B, R and their rates per day at instants ``jd``."""
-    L, B, R = vsop87.earth_heliocentric_lbr(jd)
-    dL, dB, dR = vsop87.earth_heliocentric_lbr_rates(jd)
+def _vsop_columns(jd: NDArray, band: str = "all") -> NDArray:
+    """(n, 6): VSOP87D L, B, R and their rates per day at instants ``jd`` (one band of terms)."""
+    L, B, R = vsop87.earth_heliocentric_lbr(jd, band=band)
+    dL, dB, dR = vsop87.earth_heliocentric_lbr_rates(jd, band=band)
     return np.stack([L, B, R, dL, dB, dR], axis=-1)
+
+
+def _ecliptic_matrix_columns(jd: NDArray) -> NDArray:
+    return orientation.ecliptic_matrix(jd).reshape(-1, 9)
 
 
 def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
@@ -112,8 +118,9 @@ def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
     0.983328
     """
     jd = np.asarray(jd_tt, dtype=float)
-    cols = chebyshev_blocks(_vsop_columns, jd, _VSOP_BLOCK_DAYS, _VSOP_DEGREE)
-    L, B, R, dL, dB, dR = np.moveaxis(cols, -1, 0)
+    slow = chebyshev_blocks(lambda t: _vsop_columns(t, "slow"), jd, _SLOW_BLOCK_DAYS, _SLOW_DEGREE)
+    fast = _vsop_columns(jd.reshape(-1), "fast").reshape(slow.shape)
+    L, B, R, dL, dB, dR = np.moveaxis(slow + fast, -1, 0)
     cl, sl, cb, sb = np.cos(L), np.sin(L), np.cos(B), np.sin(B)
     # heliocentric Earth in the VSOP87 ecliptic of date, and its velocity (au, au/day)
     earth = np.stack([R * cb * cl, R * cb * sl, R * sb], axis=-1)
@@ -131,7 +138,8 @@ def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
     direction = erfa.ab(-earth / R[..., None], beta, R, bm1)
     apparent_ecl = direction * R[..., None]
     # VSOP87 ecliptic of date → GCRS: transpose of the long-term ecliptic matrix (Vondrák et al. 2011)
-    ecm = orientation.ecliptic_matrix(jd)
+    ecm = chebyshev_blocks(_ecliptic_matrix_columns, jd, _SLOW_BLOCK_DAYS, _MATRIX_DEGREE)
+    ecm = ecm.reshape(jd.shape + (3, 3))
     return np.einsum("...ji,...j->...i", ecm, apparent_ecl)
 
 

@@ -44,7 +44,10 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 __all__ = [
+    "BANDS",
     "DEFAULT_TOLERANCE_RAD",
+    "FAST_PERIOD_DAYS",
+    "RATE_TOLERANCE",
     "JULIAN_MILLENNIUM_DAYS",
     "VSOP87_PROVENANCE",
     "earth_heliocentric_lbr",
@@ -60,10 +63,19 @@ _J2000 = 2451545.0
 DEFAULT_TOLERANCE_RAD = 1e-8
 _TAU_MAX = 12.0  # |τ| at 10,000 BC
 
+#: Tolerance for the rate series (per Julian millennium): 3e-6 of the Earth's mean motion.
+RATE_TOLERANCE = 2e-2
+
 #: Where the coefficients came from (stored inside the coefficient file).
 VSOP87_PROVENANCE = "VSOP87D Earth (Bretagnon & Francou 1988), full series via PyPI astronomia 3.0.5"
 
 _CHUNK = 2048  # instants per block: keeps the (block × terms) work arrays around 10 MB
+
+#: Terms with periods shorter than this (days) form the "fast" band (the Earth about the Earth–Moon
+#: barycentre and a few Mercury terms, 94 terms at the default tolerance); the rest is the "slow" band.
+FAST_PERIOD_DAYS = 76.0
+_FAST_C = 2.0 * np.pi * JULIAN_MILLENNIUM_DAYS / FAST_PERIOD_DAYS  # rad per Julian millennium
+BANDS = ("all", "fast", "slow")
 
 
 @functools.cache
@@ -74,8 +86,10 @@ def _table() -> dict[str, NDArray]:
 
 
 @functools.cache
-def _terms(coord: str, tolerance: float, rates: bool) -> tuple[NDArray, NDArray, NDArray, NDArray]:
-    """(power one-hot weights K×P for the cos sum, B, C, powers) of the kept terms of one coordinate."""
+def _terms(coord: str, tolerance: float, rates: bool, band: str = "all") -> tuple[NDArray, NDArray, NDArray, tuple]:
+    """(A, B, C, power groups) of the kept terms of one coordinate; groups are (power, start, stop)."""
+    if band not in BANDS:
+        raise ValueError(f"band {band!r} is not one of {BANDS}")
     t = _table()
     power = t[f"{coord}_power"].astype(int)
     a, b, c = t[f"{coord}_A"], t[f"{coord}_B"], t[f"{coord}_C"]
@@ -83,10 +97,16 @@ def _terms(coord: str, tolerance: float, rates: bool) -> tuple[NDArray, NDArray,
     if rates:  # the derivative's terms scale with A·C
         size = size * np.maximum(np.abs(c), 1.0)
     keep = size >= tolerance
-    n_pow = int(power.max()) + 1
-    weights = np.zeros((int(keep.sum()), n_pow))
-    weights[np.arange(weights.shape[0]), power[keep]] = a[keep]
-    return weights, b[keep], c[keep], power[keep]
+    if band == "fast":
+        keep &= np.abs(c) > _FAST_C
+    elif band == "slow":
+        keep &= np.abs(c) <= _FAST_C
+    kept_power = power[keep]  # the table is sorted by power, so each power is one contiguous run
+    groups = tuple(
+        (n, int(np.searchsorted(kept_power, n, "left")), int(np.searchsorted(kept_power, n, "right")))
+        for n in range(int(power.max()) + 1)
+    )
+    return a[keep], b[keep], c[keep], groups
 
 
 def vsop87_term_count(tolerance_rad: float = DEFAULT_TOLERANCE_RAD) -> int:
@@ -95,7 +115,7 @@ def vsop87_term_count(tolerance_rad: float = DEFAULT_TOLERANCE_RAD) -> int:
     >>> vsop87_term_count(0.0)
     2425
     """
-    return sum(_terms(c, float(tolerance_rad), False)[0].shape[0] for c in "LBR")
+    return sum(_terms(c, float(tolerance_rad), False)[0].size for c in "LBR")
 
 
 def _tau(jd_tt: ArrayLike) -> NDArray:
@@ -110,40 +130,48 @@ def _horner(tau: NDArray, coeffs: NDArray) -> NDArray:
     return out
 
 
-def _series(tau: NDArray, coord: str, tolerance: float) -> NDArray:
-    weights, b, c, _ = _terms(coord, tolerance, False)
+def _power_sums(values: NDArray, amplitude: NDArray, groups: tuple) -> NDArray:
+    """(m, n_powers): Σ_k A_k·values[:, k] over each power's run of terms (numpy loops, no BLAS threads)."""
+    out = np.zeros((values.shape[0], len(groups)))
+    for n, start, stop in groups:
+        if stop > start:
+            out[:, n] = np.einsum("ij,j->i", values[:, start:stop], amplitude[start:stop])
+    return out
+
+
+def _series(tau: NDArray, coord: str, tolerance: float, band: str = "all") -> NDArray:
+    a, b, c, groups = _terms(coord, tolerance, False, band)
     out = np.empty_like(tau)
     for i in range(0, tau.size, _CHUNK):
         tb = tau[i : i + _CHUNK]
         phase = np.multiply.outer(tb, c)
         phase += b
         np.cos(phase, out=phase)
-        out[i : i + _CHUNK] = _horner(tb, phase @ weights)  # Bretagnon & Francou (1988) eq. for X(τ)
+        out[i : i + _CHUNK] = _horner(tb, _power_sums(phase, a, groups))  # X = Σ_n τ^n Σ_k A cos(B + Cτ)
     return out
 
 
-def _series_rate(tau: NDArray, coord: str, tolerance: float) -> NDArray:
+def _series_rate(tau: NDArray, coord: str, tolerance: float, band: str = "all") -> NDArray:
     """dX/dτ = Σ_n [n τ^(n−1) S_n(τ) − τ^n Σ_k A_k C_k sin(B_k + C_k τ)] per Julian millennium."""
-    weights, b, c, power = _terms(coord, tolerance, True)
-    n_pow = weights.shape[1]
+    a, b, c, groups = _terms(coord, tolerance, True, band)
+    n_pow = len(groups)
     out = np.empty_like(tau)
     n_factor = np.arange(n_pow, dtype=float)
     for i in range(0, tau.size, _CHUNK):
         tb = tau[i : i + _CHUNK]
         phase = np.multiply.outer(tb, c)
         phase += b
-        cos_sum = np.cos(phase) @ weights
-        sin_sum = np.sin(phase) @ (weights * c[:, None])
+        cos_sum = _power_sums(np.cos(phase), a, groups)
+        sin_sum = _power_sums(np.sin(phase), a * c, groups)
         # d/dτ of τ^n S_n: n τ^(n-1) S_n from the cosine sums, then -τ^n Σ A C sin
         shifted = np.zeros_like(cos_sum)
         shifted[:, :-1] = cos_sum[:, 1:] * n_factor[1:]
         out[i : i + _CHUNK] = _horner(tb, shifted) - _horner(tb, sin_sum)
-    del power
     return out
 
 
 def earth_heliocentric_lbr(
-    jd_tt: ArrayLike, tolerance_rad: float = DEFAULT_TOLERANCE_RAD
+    jd_tt: ArrayLike, tolerance_rad: float = DEFAULT_TOLERANCE_RAD, band: str = "all"
 ) -> tuple[NDArray, NDArray, NDArray]:
     """Heliocentric ecliptic longitude, latitude (radians) and distance (au) of the Earth, VSOP87D.
 
@@ -154,22 +182,29 @@ def earth_heliocentric_lbr(
     ----------
     jd_tt : Julian dates of TT, any shape.
     tolerance_rad : drop terms smaller than this over −10000…+3000 (0 = full series).
+    band : ``"all"``, or only the terms with periods below (``"fast"``) or above (``"slow"``)
+        :data:`FAST_PERIOD_DAYS`; ``fast + slow == all``.  The slow band is smooth enough to be
+        sampled every few weeks and interpolated.
     """
     tau = np.asarray(_tau(jd_tt))
     flat = tau.reshape(-1)
     tol = float(tolerance_rad)
-    return tuple(_series(flat, c, tol).reshape(tau.shape) for c in "LBR")  # type: ignore[return-value]
+    return tuple(_series(flat, c, tol, band).reshape(tau.shape) for c in "LBR")  # type: ignore[return-value]
 
 
-def earth_heliocentric_lbr_rates(jd_tt: ArrayLike, tolerance_rad: float = 1e-6) -> tuple[NDArray, NDArray, NDArray]:
+def earth_heliocentric_lbr_rates(
+    jd_tt: ArrayLike, tolerance_rad: float = RATE_TOLERANCE, band: str = "all"
+) -> tuple[NDArray, NDArray, NDArray]:
     """Rates dL/dt, dB/dt (radians per day) and dR/dt (au per day) of VSOP87D, for aberration.
 
-    The default tolerance keeps terms with ``|A·C|·|τ|^n ≥ 1e-6`` (per millennium), which
-    gives the Earth's velocity to better than 1e-6 of itself — 0.0001″ of aberration.
+    The default tolerance keeps terms with ``|A|·max(1, |C|)·12^n ≥ 0.02`` (per millennium,
+    3e-6 of the Earth's mean motion of 6283 rad per millennium), which holds the Earth's
+    velocity to ~1.1e-5 of itself (measured) — 0.0002″ of aberration.  ``band`` as in
+    :func:`earth_heliocentric_lbr`.
     """
     tau = np.asarray(_tau(jd_tt))
     flat = tau.reshape(-1)
     tol = float(tolerance_rad)
     return tuple(  # type: ignore[return-value]
-        (_series_rate(flat, c, tol) / JULIAN_MILLENNIUM_DAYS).reshape(tau.shape) for c in "LBR"
+        (_series_rate(flat, c, tol, band) / JULIAN_MILLENNIUM_DAYS).reshape(tau.shape) for c in "LBR"
     )
