@@ -104,3 +104,41 @@ def test_enu_to_gltf_is_a_rotation():
     assert np.linalg.det(ENU_TO_GLTF[:3, :3]) == pytest.approx(1.0)
     assert (ENU_TO_GLTF[:3, :3] @ [0.0, 0.0, 1.0]).tolist() == [0.0, 1.0, 0.0]  # up -> +y
     assert (ENU_TO_GLTF[:3, :3] @ [0.0, 1.0, 0.0]).tolist() == [0.0, 0.0, -1.0]  # north -> -z
+
+
+def test_bulk_and_line_obj_readers_agree(tmp_path):
+    from lightpath.site.meshes import _read_obj_lines
+    from lightpath.site.objfile import read_obj_arrays
+
+    text = (
+        "# a comment\r\nmtllib x.mtl\r\nv 0 0 0\r\nv 1 0 0 1.0\r\nv 1 1 0\r\nv 0 1 0\r\nvt 0 0\r\nvn 0 0 1\r\n"
+        "o first\r\ng a\r\nusemtl m1\r\nf 1/1/1 2/1/1 3/1/1 4/1/1\r\ng\r\nf 1 3 4 # trailing comment\r\n"
+        "o second\r\nusemtl m2\r\nf 2 3 4\r\ng b c\r\nf 1 2 3 4 \r\n"
+    )
+    path = tmp_path / "x.obj"
+    path.write_text(text)
+    bulk = read_mesh(path)
+    lines = _read_obj_lines(path, text)
+    assert read_obj_arrays(text) is not None  # the bulk reader took it
+    assert np.array_equal(bulk.faces, lines.faces) and np.array_equal(bulk.vertices, lines.vertices)
+    for kind in ("group", "object", "material"):
+        assert {k: v.tolist() for k, v in bulk.names[kind].items()} == {
+            k: v.tolist() for k, v in lines.names[kind].items()
+        }
+    assert {k: v.tolist() for k, v in bulk.names["group"].items()} == {"a": [0, 1], "b c": [4, 5]}
+    assert read_obj_arrays("v 0 0 0\nv 1 0 0\nv 0 1 0\nf -3 -2 -1\n") is None  # negative: line reader
+
+
+def test_malformed_obj_names_the_line(tmp_path):
+    from lightpath.errors import InputError
+
+    path = tmp_path / "bad.obj"
+    path.write_text("v 0 0 0\nv 1 0 zero\nv 0 1 0\nf 1 2 3\n")
+    with pytest.raises(InputError, match="line 2"):
+        read_mesh(path)
+    path.write_text("v 0 0 0\nv 1 0 0\nf 1 2\n")
+    with pytest.raises(InputError, match="line 3"):
+        read_mesh(path)
+    path.write_text("v 0 0 0\nv 1 0 0\nv 0 1 0\nf 1 2 9\n")
+    with pytest.raises(InputError, match="does not exist"):
+        read_mesh(path)

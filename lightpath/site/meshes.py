@@ -9,10 +9,11 @@ file has, a map ``name → face indices``:
 
 PLY, STL and OFF files carry no names (select their faces by a box or give the target as a separate file).
 
-OBJ is read by our own small reader because trimesh 5.2 merges ``o``/``g`` blocks that share a material
-(checked: ``trimesh.load(..., group_material=False, split_object=True)`` returned one geometry for two
-objects), losing the names we select targets by.  Polygons are split into triangle fans.  The other formats go
-through ``trimesh.load(..., force="scene")`` with every node's transform applied (flattened).
+OBJ is read by our own reader (array-based, :mod:`lightpath.site.objfile`) because trimesh 5.2 merges
+``o``/``g`` blocks that share a material (checked: ``trimesh.load(..., group_material=False,
+split_object=True)`` returned one geometry for two objects), losing the names we select targets by.
+Polygons are split into triangle fans.  The other formats go through ``trimesh.load(..., force="scene")``
+with every node's transform applied (flattened).
 
 >>> import tempfile, pathlib
 >>> p = pathlib.Path(tempfile.mkdtemp()) / "tri.obj"
@@ -31,6 +32,7 @@ from pathlib import Path
 import numpy as np
 
 from lightpath.errors import InputError
+from lightpath.site.objfile import group_faces, read_obj_arrays
 
 __all__ = ["MESH_FORMATS", "NAME_KINDS", "LabeledMesh", "read_mesh", "merge_meshes"]
 
@@ -67,6 +69,22 @@ def _face_tokens_to_index(token: str, n_vertices: int) -> int:
 
 
 def _read_obj(path: Path) -> LabeledMesh:
+    try:
+        text = path.read_text(encoding="utf-8", errors="replace")
+    except OSError as exc:
+        raise InputError(f"{path}: mesh file cannot be read ({exc.strerror or type(exc).__name__})") from None
+    bulk = read_obj_arrays(text)
+    if bulk is None:
+        return _read_obj_lines(path, text)
+    v, f, labels, tables = bulk
+    if f.size and (f.min() < 0 or f.max() >= len(v)):
+        raise InputError(f"{path}: a face refers to a vertex that does not exist ({len(v)} vertices)")
+    names = {kind: group_faces(labels[kind], tables[kind]) for kind in NAME_KINDS}
+    return LabeledMesh(v, f, names, str(path))
+
+
+def _read_obj_lines(path: Path, text: str) -> LabeledMesh:
+    """The line-by-line OBJ reader: negative indices, and line-numbered messages for malformed records."""
     vertices: list[list[float]] = []
     faces: list[tuple[int, int, int]] = []
     labels: dict[str, list[int]] = {kind: [] for kind in NAME_KINDS}
@@ -76,10 +94,6 @@ def _read_obj(path: Path) -> LabeledMesh:
     def set_name(kind: str, name: str) -> None:
         current[kind] = tables[kind].setdefault(name, len(tables[kind])) if name else -1
 
-    try:
-        text = path.read_text(encoding="utf-8", errors="replace")
-    except OSError as exc:
-        raise InputError(f"{path}: mesh file cannot be read ({exc.strerror or type(exc).__name__})") from None
     for lineno, raw in enumerate(text.splitlines(), start=1):
         parts = raw.split("#", 1)[0].split()
         if not parts:
@@ -109,10 +123,7 @@ def _read_obj(path: Path) -> LabeledMesh:
     f = np.array(faces, dtype=np.int64).reshape(-1, 3)
     if f.size and (f.min() < 0 or f.max() >= len(v)):
         raise InputError(f"{path}: a face refers to a vertex that does not exist ({len(v)} vertices)")
-    names = {}
-    for kind in NAME_KINDS:
-        lab = np.array(labels[kind], dtype=np.int64)
-        names[kind] = {name: np.flatnonzero(lab == i) for name, i in tables[kind].items() if np.any(lab == i)}
+    names = {kind: group_faces(np.array(labels[kind], dtype=np.int64), list(tables[kind])) for kind in NAME_KINDS}
     return LabeledMesh(v, f, names, str(path))
 
 
