@@ -108,3 +108,13 @@ def test_unknown_scheme_is_exit_2_without_traceback():
         text=True,
     )
     assert proc.returncode == 2 and "Traceback" not in proc.stderr and "--scheme" in proc.stderr
+
+
+def test_polar_site_gives_null_azimuths(capsys):
+    assert main(["year", "--site", "80,10", "--year", "2027", "--parts", "4", "--scheme", "longitude", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    by = {d["name"]: d for d in doc["divisions"]}
+    assert by["june_solstice"]["sunrise_azimuth_deg"] is None  # midnight sun: no rising
+    assert by["march_equinox"]["sunrise_azimuth_deg"] is not None
+    assert main(["year", "--site", "80,10", "--year", "2027", "--parts", "4", "--scheme", "longitude", "--quiet"]) == 0
+    assert "—" in capsys.readouterr().out

@@ -191,7 +191,10 @@ def _csv_text(rows: list[dict]) -> str:
 
 
 def _fmt(value, spec: str) -> str:
-    return "—" if value is None or (isinstance(value, float) and not math.isfinite(value)) else format(value, spec)
+    if value is None or (isinstance(value, float) and not math.isfinite(value)):
+        width = spec.split(".")[0]
+        return "—".rjust(int(width)) if width.isdigit() else "—"
+    return format(value, spec)
 
 
 def _print_text(doc: dict) -> None:
