@@ -93,3 +93,15 @@ def test_framing_test_is_the_same_serial_pool_and_dask(dask_client):
     serial = to_jsonable(framing_test(light, **common))
     assert to_jsonable(framing_test(light, workers=2, **common)) == serial
     assert to_jsonable(framing_test(light, client=dask_client, **common)) == serial
+
+
+def test_connect_cluster_by_address(dask_client):
+    from lightpath.study.execution import connect_cluster
+
+    client = connect_cluster(dask_client.scheduler.address)
+    try:
+        assert run_draws(_NoisySum(1.0), TASKS[:5], client=client) == run_draws(_NoisySum(1.0), TASKS[:5])
+    finally:
+        client.close()
+    with pytest.raises(InputError, match="--cluster"):
+        connect_cluster("tcp://127.0.0.1:9")

@@ -176,10 +176,26 @@ def connect_cluster(address: str, timeout_s: float = 10.0):
         from distributed import Client
     except ImportError:
         raise InputError("--cluster: dask.distributed is not installed (pip install 'lightpath[cluster]')") from None
+    _check_reachable(address, timeout_s)
     try:
         return Client(address, timeout=timeout_s)
     except (OSError, TimeoutError, ValueError) as exc:
         raise InputError(f"--cluster: cannot reach a dask scheduler at {address!r} ({type(exc).__name__})") from None
+
+
+def _check_reachable(address: str, timeout_s: float) -> None:
+    """Fail fast (InputError) when a ``tcp://host:port`` scheduler address refuses connections."""
+    import socket
+    from urllib.parse import urlsplit
+
+    parts = urlsplit(address if "://" in address else f"tcp://{address}")
+    if parts.scheme != "tcp" or not parts.hostname or not parts.port:
+        return  # other protocols (tls, ucx, inproc): let dask judge
+    try:
+        with socket.create_connection((parts.hostname, parts.port), timeout=min(timeout_s, 3.0)):
+            pass
+    except OSError as exc:
+        raise InputError(f"--cluster: nothing answers at {address!r} ({type(exc).__name__})") from None
 
 
 def describe_backend(workers: int = 1, client: Any = None) -> str:

@@ -209,7 +209,7 @@ def framing_test(
     axis_enu: ArrayLike,
     distance_m: float | None = None,
     tolerances: Tolerances | None = None,
-    epoch_sigma_years: float = 0.0,
+    epoch_sigma_years: float | None = None,
     within_days: int = 3,
     draws: int = 200,
     null_draws: int = 200,
@@ -228,7 +228,7 @@ def framing_test(
     axis_enu : vector from the target to the opening (ENU, metres); its azimuth is the facing azimuth.
     distance_m : target–opening distance for position tolerances (default: the length of ``axis_enu``).
     tolerances : one-sigma spreads (default :class:`Tolerances` (): sky terms only).
-    epoch_sigma_years : spread of the epoch, years (overrides ``tolerances.epoch_years`` when > 0).
+    epoch_sigma_years : spread of the epoch, years (None: ``tolerances.epoch_years``).
     within_days : a division is framed when light comes on a day within ±``within_days`` of it.
     draws, null_draws : Monte Carlo draws of the survey and orientations of the null model.
     seed : the study's seed.
@@ -238,7 +238,7 @@ def framing_test(
     if isinstance(within_days, bool) or not isinstance(within_days, int) or not 0 <= within_days <= light.span_days:
         raise InputError(f"--within: {within_days!r} is not a whole number of days in 0..{light.span_days} (the span)")
     tol = tolerances if tolerances is not None else Tolerances()
-    if epoch_sigma_years:
+    if epoch_sigma_years is not None:
         tol = Tolerances(**{**tol.__dict__, "epoch_years": float(epoch_sigma_years)})
     axis = np.asarray(axis_enu, dtype=float)
     dist = float(np.linalg.norm(axis)) if distance_m is None else float(distance_m)
