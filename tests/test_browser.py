@@ -11,13 +11,10 @@ import shutil
 import subprocess
 
 import lxml.html
-import numpy as np
 import pytest
-from test_present_fixture import LONGITUDE_DEG, TARGET_AREA_M2, make_scan
 
-from lightpath.present.figures import epoch_drift_figure, figure_bytes, light_calendar_figure
-from lightpath.present.report import ReportFigure, write_report
-from lightpath.present.window_figures import light_patch_figure, sky_window_figure
+from lightpath.present.scene_report import make_report
+from lightpath.site.scene import demo_scene_path
 
 CHROMIUM = shutil.which("chromium") or shutil.which("chromium-browser")
 
@@ -40,22 +37,6 @@ _FLAGS = [
 ]
 
 
-def _figures() -> list[ReportFigure]:
-    scan = make_scan(with_ancient=True)
-    t = np.linspace(0, 2 * np.pi, 40)
-    outline = (135.0 + 3 * np.cos(t), 2.0 + 1.5 * np.sin(t))
-    track = ("December solstice", np.linspace(120.0, 150.0, 30), np.linspace(-3.0, 6.0, 30))
-    gx, gz = np.meshgrid(np.linspace(0, 1, 16), np.linspace(0, 0.5, 8))
-    pts = np.column_stack([gx.ravel(), np.zeros(gx.size), gz.ravel()])
-    figs = {
-        "light-calendar": light_calendar_figure(scan.years[1], longitude_deg=LONGITUDE_DEG, target_area_m2=0.5),
-        "sky-window": sky_window_figure([outline], sun_tracks=[track]),
-        "light-patch": light_patch_figure(pts, np.stack([pts[:, 0] < f for f in (0.3, 0.6)]), ["08:52", "08:58"]),
-        "epoch-drift": epoch_drift_figure(scan),
-    }
-    return [ReportFigure(name, name.replace("-", " "), figure_bytes(fig, "png", 50)) for name, fig in figs.items()]
-
-
 def _chromium(args: list[str], profile, timeout: float = 60.0) -> subprocess.CompletedProcess:
     return subprocess.run(
         [CHROMIUM, *_FLAGS, f"--user-data-dir={profile}", *args],
@@ -68,11 +49,12 @@ def _chromium(args: list[str], profile, timeout: float = 60.0) -> subprocess.Com
 
 @pytest.fixture(scope="module")
 def report_path(tmp_path_factory):
+    """A real report: the engine on the bundled window site, with a visit plan and an epoch-drift span."""
     out = tmp_path_factory.mktemp("browser-report")
-    scan = make_scan(with_ancient=True)
-    paths = write_report(out, scan, site=[("Latitude", "53.1° N")], figures=_figures())
-    assert scan.target_area_m2 == TARGET_AREA_M2
-    return paths["report.html"]
+    result = make_report(demo_scene_path("window"), 2026, out_dir=out, visit_year=2027, drift_years=[1826, 2026],
+                         samples=60, formats=("png",))  # fmt: skip
+    assert result.scan.years[0].events
+    return result.paths["report.html"]
 
 
 def test_every_figure_loads_and_nothing_is_logged(report_path, tmp_path):

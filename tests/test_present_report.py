@@ -13,7 +13,7 @@ from test_present_fixture import LONGITUDE_DEG, TARGET_AREA_M2, make_scan
 import lightpath.files
 from lightpath.present.figures import figure_bytes, light_calendar_figure
 from lightpath.present.report import CAUTIONS, ReportFigure, ReportTable, report_html, write_report
-from lightpath.present.tables import EVENT_COLUMNS, event_rows, rows_to_csv
+from lightpath.present.tables import EVENT_COLUMNS, EVENT_HTML_COLUMNS, event_rows, rows_to_csv
 
 
 @pytest.fixture(scope="module")
@@ -37,10 +37,10 @@ def test_report_lists_every_event_and_parses(tmp_path, calendar_figure):
     rows = doc.xpath('//table[@id="event-table"]/tbody/tr')
     events = [e for y in scan.years for e in y.events]
     assert len(rows) == len(events) == 8
-    dates = [r.xpath("./td")[1].text_content() for r in rows]
+    dates = [r.xpath("./td")[0].text_content() for r in rows]
     assert dates == ["-3199-12-24"] + [f"2026-12-{d}" for d in range(18, 25)]
     headings = [th.text_content() for th in doc.xpath('//table[@id="event-table"]/thead//th')]
-    assert headings == [title for _, title in EVENT_COLUMNS]
+    assert headings == [title for _, title in EVENT_HTML_COLUMNS]
     assert len(doc.xpath('//table[@id="division-table"]/tbody/tr')) == 5
     assert len(doc.xpath('//table[@id="visit-table"]/tbody/tr')) == 1
     caution_text = doc.xpath('//div[@class="caution"]')[0].text_content()

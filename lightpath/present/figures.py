@@ -40,6 +40,7 @@ from matplotlib.ticker import FuncFormatter
 from lightpath.errors import InputError
 from lightpath.files import write_bytes_atomic
 from lightpath.light.results import ScanResult, YearScan
+from lightpath.present.tables import division_label
 from lightpath.sky.calendar import julian_day, year_label
 
 __all__ = [
@@ -164,7 +165,7 @@ def light_calendar_figure(
             continue
         ax.axvline(x, color="#D55E00", lw=0.9, ls="--", alpha=0.9)
         ax.annotate(
-            division.name, (x, 1.0), xycoords=("data", "axes fraction"), xytext=(2, -4),
+            division_label(division.name), (x, 1.0), xycoords=("data", "axes fraction"), xytext=(2, -4),
             textcoords="offset points", rotation=90, va="top", ha="left", fontsize=7, color="#8a3300",
         )  # fmt: skip
     ax.set_title(title or f"When sunlight reaches the target, year {year_label(year_scan.year)}")
@@ -200,8 +201,8 @@ def epoch_drift_figure(scan: ScanResult, *, divisions: Sequence[str] | None = No
         first, last = (s[order] for s in series[name])
         colour = LINE_COLOURS[k % len(LINE_COLOURS)]
         ax.fill_between(x, first, last, color=colour, alpha=0.18, lw=0)
-        ax.plot(x, first, "-o", color=colour, ms=3, lw=1.2, label=f"{name}: first day")
-        ax.plot(x, last, "--s", color=colour, ms=3, lw=1.2, label=f"{name}: last day")
+        ax.plot(x, first, "-o", color=colour, ms=3, lw=1.2, label=f"{division_label(name)}: first day")
+        ax.plot(x, last, "--s", color=colour, ms=3, lw=1.2, label=f"{division_label(name)}: last day")
     ax.axhline(0.0, color="black", lw=0.8)
     ax.annotate("division day", (x.min() if x.size else 0, 0), xytext=(2, 3), textcoords="offset points", fontsize=8)
     ax.xaxis.set_major_formatter(FuncFormatter(lambda v, _pos: year_label(round(v))))

@@ -34,6 +34,7 @@ from lightpath.light.results import ScanResult
 from lightpath.present.tables import (
     DIVISION_COLUMNS,
     EVENT_COLUMNS,
+    EVENT_HTML_COLUMNS,
     division_rows,
     event_rows,
     rows_to_csv,
@@ -116,7 +117,12 @@ def accuracy_notes(scan: ScanResult) -> list[tuple[str, str]]:
     if s.delta_t_override_s is not None:
         dt_text = f"fixed by the user at {s.delta_t_override_s:g} s"
     elif dt.size and np.isfinite(dt).any():
-        dt_text = f"{np.nanmin(dt):,.0f} to {np.nanmax(dt):,.0f} s over the events, σ up to {np.nanmax(sigma):,.0f} s"
+        top = float(np.nanmax(sigma))
+        digits = 0 if np.nanmax(dt) >= 1000 else 1
+        dt_text = (
+            f"{np.nanmin(dt):,.{digits}f} to {np.nanmax(dt):,.{digits}f} s over the events, "
+            f"σ up to {top:,.{0 if top >= 10 else 1}f} s (Morrison & Stephenson 2004)"
+        )
     else:
         dt_text = "no event, so no ΔT was needed"
     refraction = {
@@ -124,8 +130,10 @@ def accuracy_notes(scan: ScanResult) -> list[tuple[str, str]]:
         "saemundsson1986": "Sæmundsson (1986), scaled by pressure and temperature",
         None: "none (geometric altitudes)",
     }.get(s.refraction, str(s.refraction))
+    used = sorted({y.source for y in scan.years if y.source})
+    sources = ", ".join(used) if used else s.source
     notes = [
-        ("Sun position", s.source),
+        ("Sun position", sources if s.source in ("auto", *used) else f"{s.source}: {sources}"),
         ("ΔT = TT − UT", dt_text + "; it moves UT and civil clock times, hardly the local apparent times"),
         ("Refraction", refraction + "; near the horizon its σ is about 0.18° (Sampson et al. 2003)"),
         ("Sky-window resolution", f"{s.window_resolution_deg:g}° on the hour-angle/declination grid"),
@@ -176,7 +184,7 @@ def report_html(
         '<h2 id="events">Light events</h2>',
         f"<p>{len(events)} event(s). Dates are the day at the site in local apparent solar time; "
         "years in astronomical numbering (0 = 1 BC, −3199 = 3200 BC), calendar named on each row.</p>",
-        rows_to_html(events, EVENT_COLUMNS, table_id="event-table"),
+        rows_to_html(events, EVENT_HTML_COLUMNS, table_id="event-table"),
         '<h2 id="divisions">Light around the divisions of the year</h2>',
         rows_to_html(divisions, DIVISION_COLUMNS, table_id="division-table"),
     ]

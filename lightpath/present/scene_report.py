@@ -31,6 +31,7 @@ from lightpath.present.civil import jd_from_local_date
 from lightpath.present.figures import epoch_drift_figure, figure_bytes, light_calendar_figure
 from lightpath.present.ics import write_calendar
 from lightpath.present.report import ReportFigure, ReportTable, write_report
+from lightpath.present.tables import division_label
 from lightpath.present.visits import VISIT_COLUMNS, visit_entries, visit_rows
 from lightpath.present.window_figures import light_patch_figure, sky_window_figure, window_outlines
 from lightpath.sky.calendar import year_label
@@ -50,10 +51,6 @@ class ReportOutput:
     drift: ScanResult | None = None
     visit: VisitPlan | None = None
     seconds: dict[str, float] = field(default_factory=dict)
-
-
-def _pretty(name: str) -> str:
-    return str(name).replace("_", " ")
 
 
 def site_summary(scene: Any, window: Any) -> list[tuple[str, str]]:
@@ -104,7 +101,7 @@ def sun_tracks(
     out = []
     for k, d in enumerate(year_scan.divisions):
         keep = alt[k] > -3.0
-        out.append((f"{_pretty(d.name)} ({d.date})", az[k][keep], alt[k][keep]))
+        out.append((f"{division_label(d.name)} ({d.date})", az[k][keep], alt[k][keep]))
     return out
 
 

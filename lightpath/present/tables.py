@@ -30,6 +30,8 @@ from lightpath.sky.calendar import calendar_date, year_label
 __all__ = [
     "DIVISION_COLUMNS",
     "EVENT_COLUMNS",
+    "EVENT_HTML_COLUMNS",
+    "division_label",
     "division_row",
     "division_rows",
     "event_row",
@@ -64,6 +66,11 @@ EVENT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("ut_date_uncertain", "UT date uncertain"),
 )
 
+#: The event columns shown in the HTML report (the CSV and JSON files carry them all).
+EVENT_HTML_COLUMNS: tuple[tuple[str, str], ...] = tuple(
+    c for c in EVENT_COLUMNS if c[0] not in ("year", "peak_ut", "end_ut", "delta_t_s", "peak_area_m2")
+)
+
 #: (key, heading) of each column of the division table, in order.
 DIVISION_COLUMNS: tuple[tuple[str, str], ...] = (
     ("year", "Year"),
@@ -77,6 +84,25 @@ DIVISION_COLUMNS: tuple[tuple[str, str], ...] = (
     ("first_offset_days", "First day − division (days)"),
     ("last_offset_days", "Last day − division (days)"),
 )
+
+
+_MONTHS = {"feb": "February", "may": "May", "aug": "August", "nov": "November"}
+
+
+def division_label(name: str) -> str:
+    """A division's name (:func:`lightpath.sky.divisions.division_name`) written for people.
+
+    >>> division_label("december_solstice"), division_label("cross_quarter_feb"), division_label("division_3_of_16")
+    ('December solstice', 'cross-quarter day (February)', 'division 3 of 16')
+    """
+    text = str(name)
+    if text.startswith("cross_quarter_"):
+        month = text.removeprefix("cross_quarter_")
+        return f"cross-quarter day ({_MONTHS.get(month, month)})"
+    words = text.split("_")
+    if len(words) == 2 and words[1] in ("solstice", "equinox"):
+        return f"{words[0].capitalize()} {words[1]}"
+    return " ".join(words)
 
 
 def ut_label(jd_ut: float, calendar: str = "auto") -> str:

@@ -14,6 +14,7 @@ from typing import Any
 from lightpath.present.civil import civil_datetime, time_zone, utc_datetime
 from lightpath.present.ics import CalendarEntry
 from lightpath.present.report import CAUTIONS
+from lightpath.present.tables import division_label
 from lightpath.study.visit import VisitEvent, VisitPlan
 
 __all__ = ["VISIT_COLUMNS", "visit_entries", "visit_row", "visit_rows", "visit_text"]
@@ -66,6 +67,7 @@ def visit_row(visit: VisitEvent, zone_name: str | None) -> dict[str, Any]:
         "duration_min": round(float(e.duration_min), 1),
         "peak_fraction": round(float(e.peak_fraction), 3),
         "nearest_division": e.nearest_division,
+        "nearest_division_label": division_label(e.nearest_division),
         "offset_days": round(float(e.offset_days), 1),
         "cases_with_light": visit.cases_with_light,
         "utc_offset": peak.strftime("%z")[:3] + ":" + peak.strftime("%z")[3:],
@@ -113,7 +115,7 @@ def visit_entries(plan: VisitPlan) -> list[CalendarEntry]:
                 f"With refraction's spread: start between {row['earliest_start']} and {row['latest_start']}, "
                 f"end between {row['earliest_end']} and {row['latest_end']}.",
                 f"Sunrise {row['sunrise'] or '—'}, sunset {row['sunset'] or '—'}. "
-                f"{row['offset_days']:+.1f} days from the {row['nearest_division']}.",
+                f"{row['offset_days']:+.1f} days from the {row['nearest_division_label']}.",
                 *CAUTIONS,
             ]
         )

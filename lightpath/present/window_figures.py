@@ -29,6 +29,7 @@ from collections.abc import Sequence
 from typing import Any
 
 import numpy as np
+from matplotlib import colormaps
 from matplotlib.figure import Figure
 
 from lightpath.errors import InputError
@@ -158,9 +159,13 @@ def sky_window_figure(
     else:
         ax.axhspan(-90.0, 0.0, color="#7a6a55", alpha=0.5, lw=0)
         ax.axhline(0.0, color="black", lw=1.0, label="flat horizon (0°)")
+    if len(sun_tracks) < len(LINE_COLOURS):
+        colours = [LINE_COLOURS[k + 1] for k in range(len(sun_tracks))]
+    else:  # many divisions: an ordered sequence through the year from viridis
+        colours = [colormaps["viridis"](v) for v in np.linspace(0.0, 0.9, len(sun_tracks))]
     for k, (label, az, alt) in enumerate(sun_tracks):
         x, y = _break_jumps(centred_azimuth(np.asarray(az, dtype=float), centre), np.asarray(alt, dtype=float))
-        colour = LINE_COLOURS[(k + 1) % len(LINE_COLOURS)]
+        colour = colours[k]
         ax.plot(x, y, color=colour, lw=1.4, label=f"Sun, {label}")
     ax.set_xlim(x_low, x_high)
     ax.set_ylim(y_low, y_high)
@@ -168,7 +173,7 @@ def sky_window_figure(
     ax.set_xlabel("Azimuth (degrees from true north, clockwise)")
     ax.set_ylabel("Altitude (degrees)")
     ax.grid(True, lw=0.4, alpha=0.5)
-    ax.legend(fontsize=7, loc="upper right")
+    ax.legend(fontsize=7, loc="upper right", ncols=2 if len(sun_tracks) > 6 else 1)
     ax.set_title(title or "Sky seen through the opening, with the Sun's path on the division days")
     return fig
 

@@ -1,0 +1,63 @@
+"""``lightpath report`` and ``lightpath visit`` on the command line: real runs and one-line errors (exit 2)."""
+
+from __future__ import annotations
+
+import json
+
+import icalendar
+import pytest
+
+from lightpath.cli import main
+from lightpath.site.scene import demo_scene_path
+
+WINDOW = str(demo_scene_path("window"))
+
+
+@pytest.mark.parametrize(
+    ("argv", "message"),
+    [
+        (["report", WINDOW, "--year", "year one", "--out", "x"], "--year"),
+        (["report", WINDOW, "--year", "2026", "--visit-year", "1850", "--out", "x"], "--visit-year: '1850' is outside"),
+        (["report", WINDOW, "--year", "2026", "--drift", "1:2:3:4", "--out", "x"], "--drift"),
+        (["report", WINDOW, "--year", "2026", "--resolution", "5", "--out", "x"], "--resolution: 5 is outside"),
+        (["report", "no-such-scene.toml", "--year", "2026", "--out", "x"], "scene file not found"),
+        (["visit", WINDOW, "--from", "2027-02-30", "--to", "2027-03-01"], "--from: '2027-02-30' is not a date"),
+        (["visit", WINDOW, "--from", "2027-03-02", "--to", "2027-03-01"], "--to 2027-03-01 is before --from"),
+        (["visit", WINDOW, "--from", "2027-03-01", "--to", "2027-03-02", "--timezone", "Mars/Base"], "--timezone"),
+        (["visit", WINDOW, "--from", "2027-03-01", "--to", "2027-03-02", "--sigma", "3"], "--sigma"),
+    ],
+)
+def test_bad_input_is_one_line_and_exit_2(argv, message, capsys, tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    assert main([*argv, "--quiet"]) == 2
+    err = capsys.readouterr().err
+    assert message in err and "Traceback" not in err and len(err.strip().splitlines()) == 1
+
+
+def test_visit_json_and_calendar_file(tmp_path, capsys):
+    ics = tmp_path / "equinox.ics"
+    argv = ["visit", WINDOW, "--from", "2027-03-10", "--to", "2027-03-31", "--ics", str(ics), "--samples", "60",
+            "--json", "--quiet"]  # fmt: skip
+    assert main(argv) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["timezone"] == "Europe/Madrid" and doc["refraction_cases"][0] == "as given"
+    events = doc["events"]
+    assert events, "the window site is built for light around the March equinox"
+    # Spain moves its clocks forward on 2027-03-28 (IANA tz database via zoneinfo): +01:00 before, +02:00 after.
+    offsets = {e["date"]: e["utc_offset"] for e in events}
+    assert all(v == ("+01:00" if d < "2027-03-28" else "+02:00") for d, v in offsets.items())
+    for e in events:
+        assert e["sunrise"] < e["earliest_start"] <= e["start"] <= e["latest_start"] < e["sunset"]
+        assert e["earliest_end"] <= e["end"] <= e["latest_end"]
+    cal = icalendar.Calendar.from_ical(ics.read_bytes())
+    assert len(list(cal.walk("VEVENT"))) == len(events)
+
+
+def test_report_command_writes_its_files(tmp_path, capsys):
+    out = tmp_path / "r"
+    argv = ["report", WINDOW, "--year", "2026", "--out", str(out), "--samples", "40", "--no-svg", "--json", "--quiet"]
+    assert main(argv) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert set(doc["files"]) >= {"report.html", "events.csv", "divisions.csv", "tables.json"}
+    assert not any(name.endswith(".svg") for name in doc["files"])
+    assert doc["events"] > 0 and doc["visit_events"] is None
