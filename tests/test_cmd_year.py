@@ -36,6 +36,15 @@ def test_json_shape(capsys):
     assert abs(doc["divisions"][0]["jd_tt"] - first) < 1e-9
 
 
+def test_notes_are_collected_once(capsys):
+    assert main(["year", "--site", SITE, "--year", "3200 BC", "--parts", "4", "--json"]) == 0
+    captured = capsys.readouterr()
+    doc = json.loads(captured.out)
+    assert isinstance(doc["notes"], list)
+    assert len(doc["notes"]) == len(set(doc["notes"]))
+    assert captured.err.count("note:") == len(doc["notes"])
+
+
 def test_year_forms_agree(capsys):
     a = run_json(capsys, "--year", "3200 BC", "--scheme", "time", "--parts", "4")
     b = run_json(capsys, "--year", "-3199", "--scheme", "time", "--parts", "4")

@@ -16,6 +16,8 @@ import csv
 import dataclasses
 import io
 import math
+import sys
+import warnings
 
 import numpy as np
 
@@ -250,18 +252,29 @@ def run(args: argparse.Namespace) -> int:
 
         horizon = read_horizon_csv(args.horizon)
     n_schemes = len(SCHEMES) if args.scheme == "all" else 1
-    with progress_bar("divisions of the year", n_schemes, quiet=args.quiet or args.json) as advance:
-        doc = year_document(
-            year,
-            observer,
-            parts=args.parts,
-            scheme=args.scheme,
-            anchor=args.anchor,
-            horizon=horizon,
-            calendar=args.calendar,
-            source=args.source,
-            progress=advance,
-        )
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", UserWarning)
+        with progress_bar("divisions of the year", n_schemes, quiet=args.quiet or args.json) as advance:
+            doc = year_document(
+                year,
+                observer,
+                parts=args.parts,
+                scheme=args.scheme,
+                anchor=args.anchor,
+                horizon=horizon,
+                calendar=args.calendar,
+                source=args.source,
+                progress=advance,
+            )
+    # each distinct warning once (the Sun model's accuracy notes repeat for every call)
+    notes = list(dict.fromkeys(" ".join(str(w.message).split()) for w in caught if issubclass(w.category, UserWarning)))
+    for w in caught:  # anything else goes on as it came
+        if not issubclass(w.category, UserWarning):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    doc["notes"] = notes
+    if not args.quiet:
+        for note in notes:
+            print(f"lightpath year: note: {note}", file=sys.stderr)
     if args.csv:
         write_text_atomic(args.csv, _csv_text(doc["divisions"]))
     if args.json:
