@@ -108,6 +108,11 @@ def test_days_scheme_anchor_and_local_days():
     # index 0 is local mean noon of the solstice's local day: within half a day of the solstice
     assert abs(d[0].jd_tt - sol) <= 0.5 + 1e-6
     np.testing.assert_allclose(np.diff([x.jd_tt for x in d]), [x.part_days for x in d[:-1]], atol=1e-6)
+    # its date is the local mean solar date of the solstice itself
+    from lightpath.sky.calendar import format_date
+    from lightpath.sky.deltat import ut_from_tt
+
+    assert d[0].date == format_date(float(ut_from_tt(sol)) + SITE.longitude_deg / 360.0)
     june = divisions(2027, "days", 4, observer=SITE, anchor="june")
     assert june[0].name == "june_solstice" and june[2].name == "december_solstice"
     assert abs(june[0].jd_tt - float(quarter_days(2027).june_solstice_jd_tt)) <= 0.5 + 1e-6
