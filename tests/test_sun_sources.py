@@ -131,3 +131,16 @@ def test_daily_instants_through_chebyshev_blocks_match_direct(source, monkeypatc
     d_alt = np.abs(fast.altitude_deg - slow.altitude_deg) * 3600
     d_az = np.abs(fast.azimuth_deg - slow.azimuth_deg) * np.cos(np.radians(slow.altitude_deg)) * 3600
     assert np.max(d_alt) < 0.001 and np.max(d_az) < 0.001
+
+
+def test_warning_before_3000_bc_only_for_vsop87():
+    import warnings
+
+    from lightpath.sky.sources import SunAccuracyWarning
+
+    with pytest.warns(SunAccuracyWarning, match="3000 BC"):
+        geocentric_sun(-100000.0)  # 4987 BC
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", SunAccuracyWarning)
+        geocentric_sun(1000000.0)  # 1975 BC: checked span
+        sun_position(2451545.0, OBS)

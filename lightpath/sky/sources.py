@@ -35,6 +35,7 @@ Astronomical Almanac*, 3rd ed., eq. 7.40 (aberration, as in ERFA ``ab``).
 from __future__ import annotations
 
 import os
+import warnings
 from dataclasses import dataclass
 
 import erfa
@@ -48,12 +49,14 @@ from lightpath.sky.nodes import chebyshev_blocks
 __all__ = [
     "LONG_TERM_SPAN_JULIAN_YEARS",
     "SOURCES",
+    "SunAccuracyWarning",
     "VSOP87_NAME",
     "VSOP87_VERIFIED_JULIAN_YEARS",
     "SunSource",
     "choose_source",
     "long_term_span_jd_tt",
     "vsop87_sun_gcrs_apparent_au",
+    "warn_if_unverified",
 ]
 
 #: Julian epochs (years) that any source may be asked for.
@@ -141,6 +144,29 @@ def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
     ecm = chebyshev_blocks(_ecliptic_matrix_columns, jd, _SLOW_BLOCK_DAYS, _MATRIX_DEGREE)
     ecm = ecm.reshape(jd.shape + (3, 3))
     return np.einsum("...ji,...j->...i", ecm, apparent_ecl)
+
+
+class SunAccuracyWarning(UserWarning):
+    """The Sun was computed where its accuracy has not been checked against a JPL ephemeris."""
+
+
+def warn_if_unverified(source: SunSource, jd_tt: ArrayLike) -> None:
+    """Warn (:class:`SunAccuracyWarning`) when VSOP87D is used before Julian epoch −3000.
+
+    DE406, the reference used here, ends at 3000 BC; VSOP87's authors state ~1″ only within ±4000
+    years of J2000.  Earlier positions are extrapolated: see docs/sun-model.md for the estimate.
+    """
+    if source.kind != "vsop87":
+        return
+    jd = np.asarray(jd_tt, dtype=float)
+    lo = float(sum(erfa.epj2jd(VSOP87_VERIFIED_JULIAN_YEARS[0])))
+    if np.any(jd[np.isfinite(jd)] < lo):
+        warnings.warn(
+            "Sun positions before 3000 BC come from VSOP87D beyond the span checked against JPL DE406 "
+            "(-3000..+3000); their error is estimated, not measured (see docs/sun-model.md)",
+            SunAccuracyWarning,
+            stacklevel=3,
+        )
 
 
 def _check_long_term_span(jd: NDArray) -> None:
