@@ -9,7 +9,7 @@ import pytest
 
 from lightpath.cli import main
 
-SITE = "53.69,-6.48,60"
+SITE = "52.40,-7.90,60"
 
 
 def run_json(capsys, *extra):

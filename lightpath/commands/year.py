@@ -2,9 +2,9 @@
 
 Examples (shell)::
 
-    lightpath year --site 53.69,-6.48,60 --year "3200 BC" --parts 8
-    lightpath year --site 53.69,-6.48 --year 2027 --parts 16 --scheme days --json
-    lightpath year --site 51.18,-1.83 --year -2499 --horizon skyline.csv --csv divisions.csv
+    lightpath year --site 52.40,-7.90,60 --year "3200 BC" --parts 8
+    lightpath year --site 52.40,-7.90 --year 2027 --parts 16 --scheme days --json
+    lightpath year --site 47.10,12.30 --year -2499 --horizon skyline.csv --csv divisions.csv
 
 Dates are civil days in local mean solar time at the site (UT + longitude/15 h); see ``docs/divisions.md``.
 """
