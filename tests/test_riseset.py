@@ -2,6 +2,8 @@
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from lightpath.errors import InputError
 from lightpath.sky.horizon import HorizonProfile, flat_horizon, horizon_dip_deg
@@ -178,3 +180,22 @@ def test_against_skyfield_risings():
         )[pick]
         # measured: 0.18″ largest difference; skyfield iterates its instants to well under 1 s.
         np.testing.assert_allclose(ours, az_sf, atol=3e-4)
+
+
+@settings(max_examples=60, deadline=None)
+@given(
+    dec=st.floats(-24.5, 24.5),
+    lat=st.floats(-64.0, 64.0),
+    alt=st.floats(-1.0, 5.0),
+    limb=st.sampled_from(["centre", "upper", "lower"]),
+)
+def test_profile_solver_matches_flat_closed_form_anywhere(dec, lat, alt, limb):
+    # Property: on a level skyline the sampled+bisected profile path equals the closed form (1e-5°),
+    # whenever the Sun rises and sets that day.
+    az = np.arange(0.0, 360.0, 15.0)
+    level = HorizonProfile(az, alt + 1e-10 * (np.arange(az.size) % 2))
+    got = rise_set_azimuths(np.array([dec]), lat, horizon=level, limb=limb)
+    ref = rise_set_azimuths(np.array([dec]), lat, horizon=flat_horizon(-alt), limb=limb)
+    if np.isfinite(ref[0]).all():
+        np.testing.assert_allclose(got, ref, atol=1e-5)
+        np.testing.assert_allclose(ref[1], 360.0 - ref[0], atol=1e-9)
