@@ -9,6 +9,9 @@ import pytest
 
 from lightpath.cli import main
 
+# The Sun model notes its accuracy before 3000 BC with a warning; these tests ask for such years on purpose.
+pytestmark = pytest.mark.filterwarnings("ignore:Sun positions before:UserWarning")
+
 SITE = "52.40,-7.90,60"
 
 

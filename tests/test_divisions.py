@@ -12,6 +12,9 @@ from lightpath.sky.observer import Observer
 from lightpath.sky.riseset import rise_set_azimuths
 from lightpath.sky.seasons import quarter_days
 
+# The Sun model notes its accuracy before 3000 BC with a warning; these tests ask for such years on purpose.
+pytestmark = pytest.mark.filterwarnings("ignore:Sun positions before:UserWarning")
+
 SITE = Observer(latitude_deg=53.0, longitude_deg=-6.5, elevation_m=60.0)
 
 

@@ -17,6 +17,9 @@ from lightpath.sky.seasons import (
     solar_longitude_instant,
 )
 
+# The Sun model notes its accuracy before 3000 BC with a warning; these tests ask for such years on purpose.
+pytestmark = pytest.mark.filterwarnings("ignore:Sun positions before:UserWarning")
+
 MINUTE_D = 1.0 / 1440.0
 
 
