@@ -57,6 +57,26 @@ def test_against_skyfield_1900_2050(skyfield_seasons, source):
     assert worst_min < 1.0, worst_min
 
 
+def test_quarter_day_timing_error_implied_by_de406():
+    # JPL DE406 (Standish 1998) apparent longitudes of date at 600 instants over -3000..+3000, from
+    # tests/data/de406_sun.csv (provenance in tests/data/README.md).  A quarter day inherits the Sun's
+    # longitude error divided by its rate: Δt = Δλ / (dλ/dt).  Measured (VSOP87 source): at most 242 s
+    # over -3000..-1000, 73 s over -1000..+1000, 89 s over +1000..+3000; we hold it to 5 min.
+    from pathlib import Path
+
+    from lightpath.sky.seasons import longitude_rate_deg_per_day
+    from lightpath.sky.sun import geocentric_sun
+
+    lines = (Path(__file__).parent / "data" / "de406_sun.csv").read_text().splitlines()
+    rows = [ln.split(",") for ln in lines if ln and not ln.startswith("#")]
+    head, body = rows[0], np.array(rows[1:], dtype=float)
+    jd, lon = body[:, head.index("jd_tt")], body[:, head.index("ecliptic_longitude_date_deg")]
+    sun = geocentric_sun(jd, "vsop87")
+    dlon = np.mod(sun.ecliptic_longitude_deg - lon + 180.0, 360.0) - 180.0
+    dt_s = dlon / longitude_rate_deg_per_day(sun.distance_au) * 86400.0
+    assert np.abs(dt_s).max() < 300.0
+
+
 def test_meeus_example_27a():
     # Meeus (1998) Example 27.a: June solstice 1962 at JDE 2437837.39245 (his method good to about a minute).
     for source in ("auto", "vsop87"):
