@@ -271,3 +271,20 @@ def test_glb_scene_y_up(tmp_path, room):
     assert scene.target.area == pytest.approx(room.target().area, rel=1e-5)
     np.testing.assert_allclose(scene.mesh.bounds, room.blocking_mesh().bounds, atol=1e-4)
     assert scene.warnings == []
+
+
+def test_the_documented_examples_load(tmp_path):
+    """The TOML examples in docs/scene-format.md are valid scenes (run beside the passage demo's files)."""
+    import re
+    import shutil
+    from pathlib import Path
+
+    doc = (Path(__file__).resolve().parents[1] / "docs" / "scene-format.md").read_text()
+    blocks = re.findall(r"```toml\n(.*?)```", doc, re.S)
+    assert len(blocks) >= 2
+    demo = demo_scene_path("passage").parent
+    for name in ("passage.obj", "horizon.csv"):
+        shutil.copy(demo / name, tmp_path / name)
+    for i, block in enumerate(blocks):
+        scene = load_scene(write(tmp_path, block, f"example{i}.toml"))
+        assert scene.report.target_area_m2 > 0
