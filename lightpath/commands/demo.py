@@ -19,7 +19,9 @@ import argparse
 import datetime as _dt
 import html
 import json
+import sys
 import time
+import warnings
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -91,6 +93,7 @@ def run_demo(
     from lightpath.site.sampling import sample_target
     from lightpath.site.scene import demo_scene_path, load_scene
     from lightpath.sky.calendar import year_label
+    from lightpath.sky.sources import SunAccuracyWarning
 
     out = Path(out_dir)
     step = progress or (lambda n=1: None)
@@ -108,7 +111,13 @@ def run_demo(
         summary = scene_summary(scene, sample_target(scene.target, count=samples, seed=0))
         write_text_atomic(out / name / "inspect.json", json.dumps(to_jsonable(summary), indent=2) + "\n")
         step(1)
-        year_doc = year_document(demo.year, scene.observer, parts=8, scheme="longitude", horizon=scene.horizon)
+        with warnings.catch_warnings(record=True) as caught:  # accuracy notices: kept once, in the summary
+            warnings.simplefilter("always", SunAccuracyWarning)
+            year_doc = year_document(demo.year, scene.observer, parts=8, scheme="longitude", horizon=scene.horizon)
+        notices = [str(w.message) for w in caught if issubclass(w.category, SunAccuracyWarning)]
+        for w in caught:
+            if not issubclass(w.category, SunAccuracyWarning):
+                warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
         write_text_atomic(out / name / "year.json", json.dumps(to_jsonable(year_doc), indent=2) + "\n")
         step(1)
         result = make_report(scene, demo.year, out_dir=out / name, visit_year=visit_year,
@@ -126,6 +135,7 @@ def run_demo(
                 "report": f"{name}/report.html",
                 "files": {k: str(v) for k, v in result.paths.items()},
                 "seconds": round(time.perf_counter() - started, 2),
+                "notices": list(dict.fromkeys(notices + result.warnings)),
             }
         )
     write_text_atomic(out / "index.html", _index_html(rows))
@@ -149,4 +159,7 @@ def run(args: argparse.Namespace) -> int:
         print(f"{r['label']}: {r['events']} light event(s) in {r['year_label']}, "
               f"{r['visit_events']} in {r['visit_year']} — {Path(args.out) / r['report']}")  # fmt: skip
     print(f"All reports: {index}  ({seconds:.0f} s)")
+    if not args.quiet:
+        for notice in dict.fromkeys(n for r in rows for n in r["notices"]):
+            print(f"notice: {notice}", file=sys.stderr)
     return 0

@@ -19,6 +19,7 @@ Writes ``DIR/report.html`` (figures embedded, opens with no network), ``events.c
 from __future__ import annotations
 
 import argparse
+import sys
 
 from lightpath.commands._common import add_output_options, print_json, progress_bar
 from lightpath.errors import InputError
@@ -120,10 +121,14 @@ def run(args: argparse.Namespace) -> int:
     with progress_bar("report", stage_count(visit_year is not None, drift is not None), args.quiet) as advance:
         out = make_report(args.scene, year, out_dir=args.out, visit_year=visit_year, drift_years=drift,
                           formats=formats, progress=advance, **options)  # fmt: skip
+    if not args.quiet:
+        for notice in out.warnings:
+            print(f"notice: {notice}", file=sys.stderr)
     if args.json:
         print_json(
             {
                 "scene": out.scan.scene,
+                "notices": out.warnings,
                 "files": {name: str(path) for name, path in out.paths.items()},
                 "events": sum(len(y.events) for y in out.scan.years),
                 "visit_events": None if out.visit is None else len(out.visit.events),

@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import datetime as _dt
 import os
+import warnings
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -51,6 +52,7 @@ class ReportOutput:
     drift: ScanResult | None = None
     visit: VisitPlan | None = None
     seconds: dict[str, float] = field(default_factory=dict)
+    warnings: list[str] = field(default_factory=list)  # accuracy warnings raised on the way (also in the report)
 
 
 def site_summary(scene: Any, window: Any) -> list[tuple[str, str]]:
@@ -162,6 +164,54 @@ def make_report(
     formats : figure files beside the report (``png`` always; ``svg`` optional).
     progress : called with 1 after each stage (6 stages, 3 more with a visit year, 2 more with drift years).
     """
+    options = dict(criterion=criterion, scheme=scheme, parts=parts, samples=samples, seed=seed, source=source,
+                   resolution_deg=resolution_deg, cache_dir=cache_dir, formats=formats, progress=progress)  # fmt: skip
+    from lightpath.sky.sources import SunAccuracyWarning
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", SunAccuracyWarning)  # every accuracy notice, for the report's notes
+        out = _make_report(scene, year, caught, out_dir=out_dir, visit_year=visit_year, drift_years=drift_years,
+                           **options)  # fmt: skip
+    for w in caught:  # anything that is not an accuracy notice goes on as a warning
+        if not _is_accuracy_warning(w):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    return out
+
+
+def _is_accuracy_warning(w: warnings.WarningMessage) -> bool:
+    from lightpath.sky.sources import SunAccuracyWarning
+
+    return issubclass(w.category, SunAccuracyWarning)
+
+
+def _accuracy_messages(caught: Sequence[warnings.WarningMessage]) -> list[str]:
+    out: list[str] = []
+    for w in caught:
+        text = str(w.message)
+        if _is_accuracy_warning(w) and text not in out:
+            out.append(text)
+    return out
+
+
+def _make_report(
+    scene: Any,
+    year: int,
+    caught: list,
+    *,
+    out_dir: str | os.PathLike,
+    visit_year: int | None = None,
+    drift_years: Sequence[int] | None = None,
+    criterion: str = "first-gleam",
+    scheme: str = "longitude",
+    parts: int = 8,
+    samples: int = 400,
+    seed: int = 0,
+    source: str = "auto",
+    resolution_deg: float = 0.1,
+    cache_dir: str | os.PathLike | None = None,
+    formats: Sequence[str] = ("png", "svg"),
+    progress: Callable[[int], None] | None = None,
+) -> ReportOutput:
     import time
 
     from lightpath.light.scan import prepare_window, scan_window
@@ -284,6 +334,9 @@ def make_report(
             )
         )
     made_with = f"Made with lightpath on {_dt.date.today().isoformat()}."
+    accuracy_warnings = _accuracy_messages(caught)
+    main = ScanResult(main.scene, main.settings, main.target_area_m2, main.years,
+                      list(main.notes) + [m for m in accuracy_warnings if m not in main.notes])  # fmt: skip
     paths = write_report(
         out_dir, main, site=site_summary(scene, window), figures=figures, tables=tables, made_with=made_with
     )
@@ -292,7 +345,7 @@ def make_report(
             Path(out_dir) / "visit.ics", visit_entries(plan), name=f"Sunlight on the target: {label}"
         )
     lap("write")
-    return ReportOutput(paths, main, drift, plan, seconds)
+    return ReportOutput(paths, main, drift, plan, seconds, accuracy_warnings)
 
 
 def _horizon_arrays(scene: Any) -> tuple[np.ndarray, np.ndarray] | None:
