@@ -99,3 +99,18 @@ def test_leak_check_finds_a_missing_roof(tmp_path, capsys):
     data = json.loads(capsys.readouterr().out)
     assert data["leak_check"]["leak_share"] > 0.01  # the niche sees the open roof
     assert any(w.startswith("light leaks") for w in data["warnings"])
+
+
+@pytest.mark.parametrize("shift_m, covered", [(0.004, False), (-0.006, True)])
+def test_surveyed_polygon_target_and_covered_check(tmp_path, capsys, shift_m, covered):
+    room = window_room(90.0)
+    export_obj(room, tmp_path / "room.obj")
+    quad = room.target()
+    corners = (quad.vertices + shift_m * quad.face_normals[0]).round(6).tolist()  # in order, normal into the room
+    text = GOOD.replace('groups = ["target"]', f"polygon_m = {corners}")
+    (tmp_path / "s.toml").write_text(text)
+    assert main(["inspect", str(tmp_path / "s.toml"), "--json", "--samples", "100"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["target"]["area_m2"] == pytest.approx(quad.area, rel=1e-6)
+    assert (data["samples"]["covered_share"] > 0.9) is covered
+    assert any(w.startswith("target covered") for w in data["warnings"]) is covered

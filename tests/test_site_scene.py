@@ -288,3 +288,21 @@ def test_the_documented_examples_load(tmp_path):
     for i, block in enumerate(blocks):
         scene = load_scene(write(tmp_path, block, f"example{i}.toml"))
         assert scene.report.target_area_m2 > 0
+
+
+def test_polygon_opening_and_bad_polygons(folder, room):
+    pane = room.opening()
+    corners = pane.vertices.round(6).tolist()
+    text = BASE.replace('groups = ["window"]', f"polygon_m = {corners}")
+    scene = load_scene(write(folder, text))
+    assert scene.opening.area == pytest.approx(pane.area, rel=1e-5)
+    assert len(scene.mesh.faces) == len(room.blocking_mesh().faces) + 2  # the window quad is still in the file
+    bad = [
+        ("polygon_m = [[0, 0, 0], [1, 0, 0]]", "at least 3 corners"),
+        ("polygon_m = [[0, 0, 0], [1, 0, 0], [2, 0, 0]]", "no area"),
+        ("polygon_m = [[0, 0, 0], [1, 0, 0], [1, 1, 0.5], [0, 1, 0]]", "off a plane"),
+        ('polygon_m = "corners"', "corners"),
+    ]
+    for value, word in bad:
+        with pytest.raises(InputError, match=word):
+            load_scene(write(folder, BASE.replace('groups = ["window"]', value)))

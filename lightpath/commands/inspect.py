@@ -97,6 +97,12 @@ def run(args: argparse.Namespace) -> int:
     if scene.report.target_area_m2 > 0:
         samples = sample_target(scene.target, count=args.samples, seed=args.seed)
     summary = scene_summary(scene, samples)
+    if samples is not None:
+        from lightpath.site.checks import covered_fraction, covered_warnings
+
+        covered = covered_fraction(scene.mesh, samples.points_m, samples.normals)
+        summary["samples"]["covered_share"] = covered
+        summary["warnings"] += covered_warnings(covered)
     if samples is not None and scene.opening is not None:
         from lightpath.site.checks import leak_fraction, leak_warnings
 

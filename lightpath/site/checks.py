@@ -18,6 +18,8 @@ __all__ = [
     "LARGEST_PLAUSIBLE_M",
     "SMALLEST_PLAUSIBLE_M",
     "extent_warnings",
+    "covered_fraction",
+    "covered_warnings",
     "facing_warnings",
     "leak_fraction",
     "leak_warnings",
@@ -140,4 +142,32 @@ def leak_warnings(leak_share: float, threshold: float = 1e-3) -> list[str]:
     return [
         f"light leaks: {leak_share:.1%} of random rays from the target escape without crossing the opening "
         "(holes in the mesh, or a second opening not named)"
+    ]
+
+
+def covered_fraction(mesh, points_m: np.ndarray, normals: np.ndarray, *, within_m: float = 0.01) -> float:
+    """Share of target samples with other geometry within ``within_m`` metres in front of them, 0..1.
+
+    A sample whose own normal ray hits a surface that close lies under (or just behind) another surface —
+    e.g. a surveyed target polygon a few millimetres behind the scanned wall — and will never see light.
+    """
+    pts, n = np.asarray(points_m, float), np.asarray(normals, float)
+    locations, index, _ = mesh.ray.intersects_location(pts, n, multiple_hits=False)
+    if len(index) == 0:
+        return 0.0
+    distance = np.linalg.norm(locations - pts[index], axis=1)
+    return float(np.sum(distance < within_m) / len(pts))
+
+
+def covered_warnings(share: float, threshold: float = 0.05) -> list[str]:
+    """A warning when more than ``threshold`` of the target's samples are covered (see :func:`covered_fraction`).
+
+    >>> covered_warnings(0.5)[0][:40]
+    'target covered: 50% of its samples have '
+    """
+    if share <= threshold:
+        return []
+    return [
+        f"target covered: {share:.0%} of its samples have a surface within 1 cm in front of them "
+        "(is the target behind a wall surface, or its normals reversed?)"
     ]

@@ -41,7 +41,7 @@ from lightpath.site.frames import AXES, NORTH_REFERENCES, UNIT_TO_M, apply_trans
 from lightpath.site.meshes import LabeledMesh, read_mesh
 from lightpath.site.report import LoadReport, load_report
 from lightpath.site.scene_keys import TOLERANCE_KEYS, boolean, check_keys, choice, names, number, text, vector3
-from lightpath.site.targets import box_mesh, faces_in_box, select_by_name, submesh
+from lightpath.site.targets import box_mesh, faces_in_box, polygon_mesh, select_by_name, submesh
 from lightpath.site.terrain import horizon_from_terrain
 from lightpath.sky.horizon import HorizonProfile, flat_horizon, horizon_dip_deg, read_horizon_csv
 from lightpath.sky.observer import REFRACTION_MODELS, Observer
@@ -110,10 +110,12 @@ def _selection_form(table: dict, name: str, where: str) -> str:
     ]
     if "box_min_m" in table or "box_max_m" in table:
         forms.append("box")
+    if "polygon_m" in table:
+        forms.append("polygon")
     if len(forms) != 1:
         raise InputError(
-            f"{where}: [{name}] needs exactly one of: groups/objects/materials, file, or box_min_m + box_max_m"
-            + (f" (found {' and '.join(forms)})" if forms else "")
+            f"{where}: [{name}] needs exactly one of: groups/objects/materials, file, box_min_m + box_max_m, "
+            "or polygon_m" + (f" (found {' and '.join(forms)})" if forms else "")
         )
     return forms[0]
 
@@ -263,6 +265,8 @@ def load_scene(path: str | os.PathLike) -> Scene:
             extra = read_site_mesh(opening_t["file"], "opening.file")
             files.append(extra.path)
             opening = trimesh.Trimesh(extra.vertices, extra.faces, process=False)
+        elif form == "polygon":
+            opening = polygon_mesh(opening_t["polygon_m"], key=f"{where}: opening.polygon_m")
         else:
             opening = box_mesh(*_box(opening_t, "opening", where))
         if boolean(opening_t, "opening.flip_normals", where, False):
@@ -280,9 +284,13 @@ def load_scene(path: str | os.PathLike) -> Scene:
         chosen = faces_in_box(blocking_v, blocking_f, *_box(target_t, "target", where))
         target = submesh(blocking_v, blocking_f, chosen)
     else:
-        extra = read_site_mesh(target_t["file"], "target.file")
-        files.append(extra.path)
-        target = trimesh.Trimesh(extra.vertices, extra.faces, process=False)
+        if form == "polygon":
+            target = polygon_mesh(target_t["polygon_m"], key=f"{where}: target.polygon_m")
+            extra = LabeledMesh(np.asarray(target.vertices), np.asarray(target.faces))
+        else:
+            extra = read_site_mesh(target_t["file"], "target.file")
+            files.append(extra.path)
+            target = trimesh.Trimesh(extra.vertices, extra.faces, process=False)
         blocking_f = np.vstack([blocking_f, extra.faces + len(blocking_v)])
         blocking_v = np.vstack([blocking_v, extra.vertices])
     if len(target.faces) == 0:

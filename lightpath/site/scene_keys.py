@@ -29,7 +29,7 @@ __all__ = [
     "vector3",
 ]
 
-_SELECT = ("groups", "objects", "materials", "file", "box_min_m", "box_max_m", "flip_normals")
+_SELECT = ("groups", "objects", "materials", "file", "box_min_m", "box_max_m", "polygon_m", "flip_normals")
 
 #: Tolerance keys of the optional [tolerances] table: one-sigma survey uncertainties, all ≥ 0.
 TOLERANCE_KEYS = {

@@ -4,7 +4,8 @@ Three ways, the same for target and opening:
 
 - by name: faces whose OBJ group/object/material (or glTF node/material) has one of the given names;
 - by a box in site coordinates (ENU metres): faces whose centroid lies inside the box;
-- by a separate mesh file (read by the scene loader with the model's unit and axes).
+- by a separate mesh file (read by the scene loader with the model's unit and axes);
+- by a surveyed polygon: corners in site coordinates (e.g. a backstone's corners from a total station).
 
 >>> import trimesh
 >>> from lightpath.site.meshes import LabeledMesh
@@ -22,7 +23,7 @@ import numpy as np
 from lightpath.errors import InputError
 from lightpath.site.meshes import NAME_KINDS, LabeledMesh
 
-__all__ = ["select_by_name", "faces_in_box", "box_mesh", "submesh", "face_areas_m2"]
+__all__ = ["select_by_name", "faces_in_box", "box_mesh", "polygon_mesh", "submesh", "face_areas_m2"]
 
 
 def select_by_name(mesh: LabeledMesh, wanted: dict[str, list[str]], table: str) -> np.ndarray:
@@ -94,3 +95,34 @@ def submesh(vertices: np.ndarray, faces: np.ndarray, face_index: np.ndarray):
     f = np.asarray(faces)[np.asarray(face_index, dtype=np.int64)]
     used, inverse = np.unique(f.reshape(-1), return_inverse=True)
     return trimesh.Trimesh(np.asarray(vertices)[used], inverse.reshape(-1, 3), process=False)
+
+
+def polygon_mesh(corners_m, *, key: str = "polygon_m", planar_tolerance_m: float = 0.01):
+    """A convex planar polygon (corners in order, site metres) as a triangle fan.
+
+    The normal follows the right-hand rule: corners counter-clockwise seen from the side the surface faces.
+    Raises InputError for fewer than 3 corners, non-finite numbers, no area, or corners off a plane by more
+    than ``planar_tolerance_m`` (default 1 cm, a total station's usual point accuracy; common practice).
+
+    >>> m = polygon_mesh([[0, 0, 0], [2, 0, 0], [2, 1, 0], [0, 1, 0]])
+    >>> float(m.area), m.face_normals[0].tolist()
+    (2.0, [0.0, 0.0, 1.0])
+    """
+    import trimesh
+
+    try:
+        p = np.asarray(corners_m, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(f"{key}: corners must be [east, north, up] numbers in metres") from None
+    if p.ndim != 2 or p.shape[1] != 3 or len(p) < 3 or not np.all(np.isfinite(p)):
+        raise InputError(f"{key}: give at least 3 corners, each [east, north, up] finite numbers in metres")
+    n = len(p)
+    faces = np.stack([np.zeros(n - 2, int), np.arange(1, n - 1), np.arange(2, n)], axis=1)
+    normal = np.cross(p[faces[:, 1]] - p[faces[:, 0]], p[faces[:, 2]] - p[faces[:, 0]]).sum(axis=0)
+    length = np.linalg.norm(normal)
+    if length == 0:
+        raise InputError(f"{key}: the corners enclose no area")
+    off_plane = np.abs((p - p.mean(axis=0)) @ (normal / length))
+    if off_plane.max() > planar_tolerance_m:
+        raise InputError(f"{key}: corners are {off_plane.max():.3f} m off a plane (more than {planar_tolerance_m} m)")
+    return trimesh.Trimesh(p, faces, process=False)
