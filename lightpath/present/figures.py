@@ -45,6 +45,7 @@ from lightpath.sky.calendar import julian_day, year_label
 
 __all__ = [
     "FIGURE_FORMATS",
+    "clock_label",
     "LINE_COLOURS",
     "day_of_year",
     "epoch_drift_figure",
@@ -103,6 +104,16 @@ def day_of_year(day_jd_ut: np.ndarray, year: int, calendar: str, longitude_deg: 
     return np.rint(np.asarray(day_jd_ut, dtype=np.float64) + longitude_deg / 360.0 - jan1).astype(int) + 1
 
 
+def clock_label(hours: float) -> str:
+    """Hours after midnight as ``HH:MM`` (rounded to the minute).
+
+    >>> clock_label(18.25), clock_label(8.9999)
+    ('18:15', '09:00')
+    """
+    minutes = int(round(float(hours) * 60.0)) % 1440
+    return f"{minutes // 60:02d}:{minutes % 60:02d}"
+
+
 def _division_day(date: str, year: int, calendar: str) -> float | None:
     """Day of the year of a ``YYYY-MM-DD`` date string (astronomical year), or None."""
     match = _DATE_RE.match(date or "")
@@ -157,6 +168,7 @@ def light_calendar_figure(
     cal_name = year_scan.calendar.capitalize()
     ax.set_xlabel(f"Day of the year (1 = 1 January, {cal_name} calendar)")
     ax.set_ylabel("Local apparent solar time (h)")
+    ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _pos: clock_label(v)))
     bar = fig.colorbar(mesh, ax=ax, pad=0.01)
     bar.set_label("Lit fraction of the target" if target_area_m2 else "Lit area of the target (m²)")
     for division in year_scan.divisions:
