@@ -31,6 +31,7 @@ def write_atomic(path: str | os.PathLike, writer: Callable[[IO[bytes]], None]) -
     path.parent.mkdir(parents=True, exist_ok=True)
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
     try:
+        os.chmod(tmp, 0o666 & ~_umask())  # mkstemp makes 0600; give the file the usual mode
         with os.fdopen(fd, "wb") as handle:
             writer(handle)
             handle.flush()
@@ -43,6 +44,12 @@ def write_atomic(path: str | os.PathLike, writer: Callable[[IO[bytes]], None]) -
             pass
         raise
     return path
+
+
+def _umask() -> int:
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
 
 
 def write_bytes_atomic(path: str | os.PathLike, data: bytes) -> Path:

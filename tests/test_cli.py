@@ -25,3 +25,26 @@ def test_unknown_option_is_exit_2():
     proc = subprocess.run([sys.executable, "-m", "lightpath", "--no-such-option"], capture_output=True, text=True)
     assert proc.returncode == 2
     assert "Traceback" not in proc.stderr
+
+
+def test_atomic_write_has_usual_mode_and_leaves_nothing_on_failure(tmp_path):
+    import os
+    import stat
+
+    import pytest
+
+    from lightpath.files import write_atomic, write_text_atomic
+
+    path = write_text_atomic(tmp_path / "a.txt", "first")
+    mask = os.umask(0)
+    os.umask(mask)
+    assert stat.S_IMODE(path.stat().st_mode) == 0o666 & ~mask
+
+    def broken(handle):
+        handle.write(b"half")
+        raise RuntimeError("interrupted")
+
+    with pytest.raises(RuntimeError):
+        write_atomic(path, broken)
+    assert path.read_text() == "first"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["a.txt"]
