@@ -143,3 +143,11 @@ def test_window_outline_of_a_tube_is_its_cone():
     fig = sky_window_figure(outlines)
     low, high = fig.axes[0].get_xlim()
     assert low < 90.0 - 7.0 and high > 90.0 + 7.0
+
+
+def test_light_calendar_without_light_says_so():
+    year = make_scan().years[0]
+    dark = year.light_map.__class__(year.light_map.day_jd_ut, year.light_map.minutes, 0 * year.light_map.area_m2)
+    fig = light_calendar_figure(year.__class__(2026, "gregorian", "s", [], year.divisions, dark), longitude_deg=0.0)
+    assert "no light reaches the target in this year" in _texts(fig.axes[0])
+    assert fig.axes[0].yaxis.get_major_formatter()(8.5, 0) == "08:30"
