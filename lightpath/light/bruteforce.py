@@ -134,5 +134,10 @@ def opening_reach(points_m: ArrayLike, opening: trimesh.Trimesh, sun_enu: ArrayL
     half = np.where(dist <= radius, 180.0, half) + SEMIDIAMETER_DEG + margin_deg
     s = np.asarray(sun_enu, float).reshape(-1, 3)
     s = s / np.linalg.norm(s, axis=1, keepdims=True)
-    cosang = s @ (to / dist[:, None]).T  # (M, S)
-    return np.any(cosang >= np.cos(np.radians(np.minimum(half, 180.0)))[None, :], axis=1)
+    unit = (to / dist[:, None]).T
+    limit = np.cos(np.radians(np.minimum(half, 180.0)))[None, :]
+    out = np.zeros(len(s), bool)
+    step = max(1, 4_000_000 // max(len(pts), 1))
+    for a in range(0, len(s), step):  # (M, S) in chunks
+        out[a : a + step] = np.any(s[a : a + step] @ unit >= limit, axis=1)
+    return out

@@ -217,30 +217,32 @@ def disc_fraction(
     fh, fd = window.grid.fractional_index(h, d)
     s_count, nh, nd = frac.shape
     out = np.zeros((len(s), s_count), np.float64)
-    flat = frac.reshape(s_count, -1)
+    flat = frac.reshape(-1)
     step = max(1, CHUNK // max(s_count, 1))
     n_h, wrap = window.grid.n_h, window.wrap_cells
-    rows = np.arange(s_count)[None, :]
+    sample_base = np.arange(s_count, dtype=np.int64) * (nh * nd)
+    h0 = window.h0.astype(np.float64) + wrap
+    d0 = window.d0.astype(np.float64)
     for a in range(0, len(s), step):
         b = slice(a, a + step)
-        lh = np.mod(fh[b, None] - window.h0[None, :] - wrap, n_h) + wrap
-        ld = fd[b, None] - window.d0[None, :]
-        i0 = np.floor(lh).astype(np.int64)
-        j0 = np.floor(ld).astype(np.int64)
-        ok = (i0 >= 0) & (i0 <= nh - 2) & (j0 >= 0) & (j0 <= nd - 2) & (hfac[b, None] > 0)
-        i0c, j0c = np.clip(i0, 0, nh - 2), np.clip(j0, 0, nd - 2)
-        fi, fj = lh - i0c, ld - j0c
-        base = i0c * nd + j0c
-        f00 = flat[rows, base]
-        f10 = flat[rows, base + nd]
-        f01 = flat[rows, base + 1]
-        f11 = flat[rows, base + nd + 1]
+        lh = np.mod(fh[b, None] - h0[None, :], n_h) + wrap
+        ld = fd[b, None] - d0[None, :]
+        ok = (lh >= 0) & (lh < nh - 1) & (ld >= 0) & (ld < nd - 1) & (hfac[b, None] > 0)
+        m, k = np.nonzero(ok)  # only the samples whose box holds the Sun
+        if m.size == 0:
+            continue
+        x, y = lh[m, k], ld[m, k]
+        i0, j0 = x.astype(np.int64), y.astype(np.int64)
+        fi, fj = x - i0, y - j0
+        base = sample_base[k] + i0 * nd + j0
+        f00, f01 = np.take(flat, base), np.take(flat, base + 1)
+        f10, f11 = np.take(flat, base + nd), np.take(flat, base + nd + 1)
         val = (f00 * (1 - fi) + f10 * fi) * (1 - fj) + (f01 * (1 - fi) + f11 * fi) * fj
         if edge == "low":
             val = val**1.5
         elif edge == "high":
             val = 1.0 - val**1.5
-        out[b] = np.where(ok, val, 0.0) * hfac[b, None]
+        out[m + a, k] = val * hfac[m + a]
     return out
 
 

@@ -127,5 +127,15 @@ class SkyGrid:
         return fh, fd
 
     def directions(self, k: ArrayLike, j: ArrayLike) -> NDArray:
-        """ENU unit vectors (…, 3) of the centres of cells (k, j)."""
-        return enu_from_hadec(self.latitude_deg, self.h_center(k), self.d_center(j))
+        """ENU unit vectors (…, 3) of the centres of cells (k, j) (trigonometry tabulated per cell row/column)."""
+        k = np.mod(np.asarray(k, dtype=np.int64), self.n_h)
+        j = np.asarray(j, dtype=np.int64)
+        h = np.radians(self.h_center(np.arange(self.n_h)))
+        inside = (j >= 0) & (j < self.n_d)
+        if not np.all(inside):  # rows off the band: compute directly
+            return enu_from_hadec(self.latitude_deg, self.h_center(k), self.d_center(j))
+        d = np.radians(self.d_center(np.arange(self.n_d)))
+        q, w, p = site_axes(self.latitude_deg)
+        cd, sd = np.cos(d)[j], np.sin(d)[j]
+        a, b = np.cos(h)[k] * cd, np.sin(h)[k] * cd
+        return a[..., None] * q + b[..., None] * w + sd[..., None] * p

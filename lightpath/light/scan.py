@@ -259,13 +259,13 @@ def scan_year(
         horizon_offset_deg=horizon_offset_deg,
         limb_darkening_u=limb_darkening_u,
     )
-    div_years = [y for y in (year - 1, year, year + 1, year + 2) if YEAR_MIN <= y <= YEAR_MAX]
+    # year Y's divisions run from the December solstice of Y − 1: Y − 1 … Y + 1 cover the sweep and margins;
+    # horizon=None: the divisions' instants do not depend on it, only their sunrise azimuths (unused here)
+    div_years = [y for y in (year - 1, year, year + 1) if YEAR_MIN <= y <= YEAR_MAX]
     divs = [
         d
         for y in div_years
-        for d in divisions(
-            y, scheme, parts, observer=observer, horizon=window.horizon, source=source, calendar=calendar
-        )
+        for d in divisions(y, scheme, parts, observer=observer, horizon=None, source=source, calendar=calendar)
     ]
     div_pos = sun(np.array([d.jd_tt for d in divs]))
     div_days = local_day_number(div_pos.jd_ut, observer.longitude_deg, div_pos.local_apparent_time_h)

@@ -174,6 +174,24 @@ def _boxes_from_directions(grid: SkyGrid, h_deg: NDArray, d_deg: NDArray, ok: ND
     return h0, nh, d0, nd, full
 
 
+class _Hits:
+    """A caster turned round: True where a ray *hits* the mesh (the opening's pane)."""
+
+    def __init__(self, caster: RayCaster) -> None:
+        self.caster = caster
+
+    def escapes(self, origins, directions):
+        return ~self.caster.escapes(origins, directions)
+
+
+def _opening_width_deg(opening: trimesh.Trimesh, points_m: NDArray) -> float:
+    """Narrowest angular width of the opening seen from the farthest sample, degrees."""
+    extents = np.sort(np.asarray(opening.bounding_box_oriented.primitive.extents, dtype=float))
+    width = extents[1] if extents.size >= 2 else extents[-1]  # the smallest is the pane's thickness
+    far = float(np.max(np.linalg.norm(points_m - np.asarray(opening.centroid, float), axis=1)))
+    return math.degrees(width / max(far, 1e-9))
+
+
 def _cast_cells(caster, grid, origins, normals, h_idx, d_idx, s_idx) -> NDArray[np.bool_]:
     """Escape test for cells given by flat index arrays; back-facing and sub-horizon cells are False."""
     dirs = grid.directions(h_idx, d_idx)
@@ -357,10 +375,29 @@ def compute_window(
             f"sky window too large: {len(pts)} samples x {nh}x{nd} cells; use fewer samples, a coarser "
             "resolution or give the scene's opening"
         )
-    if nh * nd <= 4096:
+    if nh * nd <= 64:
         levels = (1,)
-    escape, n = _multilevel(caster, grid, origins, nrm, h0, d0, nh, nd, levels, progress)
-    rays += n
+    if opening is not None and len(opening.vertices):
+        # which cells' rays pass through the opening: a convex-ish pane, resolved coarse-to-fine with a first
+        # step under a third of its narrowest angular width; then every such cell is cast at full resolution
+        gate_levels = _levels(min(coarse_deg, _opening_width_deg(opening, pts) / 3.0), res)
+        gate_levels = tuple(k for k in levels if k <= gate_levels[0]) or (1,)
+        g0 = gate_levels[0]
+        if (nh - 1) % g0 or (nd - 1) % g0:
+            gate_levels = (1,)
+        gate, n = _multilevel(
+            _Hits(RayCaster(opening, backend=backend)), grid, origins, nrm, h0, d0, nh, nd, gate_levels, progress
+        )
+        rays += n
+        escape = np.zeros_like(gate)
+        s_i, i_i, j_i = np.nonzero(gate)
+        if s_i.size:
+            out, n = _cast_cells(caster, grid, origins, nrm, h0[s_i] + i_i, d0[s_i] + j_i, s_i)
+            escape[s_i, i_i, j_i] = out
+            rays += n
+    else:
+        escape, n = _multilevel(caster, grid, origins, nrm, h0, d0, nh, nd, levels, progress)
+        rays += n
     window = SkyWindow(
         grid, pts, nrm, area, h0.astype(np.int64), d0.astype(np.int64), escape, wrap, offset, rays, key, notes
     )
