@@ -112,3 +112,48 @@ def test_parse_years_forms():
     for bad in ("2000:1990", "2000:2010:-1", "x:y", "-20000:0:10"):
         with pytest.raises(InputError):
             parse_years(bad)
+
+
+def test_horizon_offset_and_light_map_on_the_passage():
+    """Raising the skyline can only shorten light that comes at sunrise; the light map holds the events."""
+    from lightpath.light.scan import scan_window
+
+    scene = load_scene(demo_scene_path("passage"))
+    window = prepare_window(scene, samples=40, seed=1)
+    base = scan_window(window, scene.observer, [-3199], with_light_map=True).years[0]
+    high = scan_window(window, scene.observer, [-3199], horizon_offset_deg=1.0).years[0]
+    assert base.events
+    total = sum(e.duration_min for e in base.events)
+    assert sum(e.duration_min for e in high.events) < total
+    lm = base.light_map
+    assert lm is not None and lm.area_m2.shape == (len(lm.day_jd_ut), len(lm.minutes))
+    assert lm.area_m2.max() > 0
+    # minutes of light in the map (1-minute columns) match the events' durations within a minute a day
+    lit_minutes = (lm.area_m2 > 0).sum()
+    assert abs(lit_minutes - total) < len(base.events) * 1.0 + 1
+
+
+def test_limb_darkening_dims_a_limb_only_view():
+    """With the linear law, a disc showing only its limb shows less light than a uniform one; full is full."""
+    from test_light_geometry import tube_scene
+
+    from lightpath.light.disc import LIMB_DARKENING_U, SEMIDIAMETER_DEG, disc_fraction
+
+    lat = 52.0
+    mesh, opening, axis, end = tube_scene(lat, -60.0, 10.0)
+    window = compute_window(mesh, end[None], axis[None], [1.0], lat, opening=opening)
+    theta = math.degrees(math.atan(0.3 / 30.0))
+    perp = np.cross(axis, [0.0, 0.0, 1.0])
+    perp /= np.linalg.norm(perp)
+
+    def toward(offset_deg):
+        o = math.radians(offset_deg)
+        return (axis * math.cos(o) + perp * math.sin(o))[None]
+
+    for off, relation in ((0.0, "equal"), (theta + 0.8 * SEMIDIAMETER_DEG, "darker")):
+        uniform = disc_fraction(window, toward(off))[0, 0]
+        dark = disc_fraction(window, toward(off), limb_darkening_u=LIMB_DARKENING_U)[0, 0]
+        if relation == "equal":
+            assert uniform == pytest.approx(1.0) and dark == pytest.approx(1.0, abs=1e-6)
+        else:
+            assert 0.0 < dark < uniform
