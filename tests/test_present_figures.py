@@ -151,3 +151,13 @@ def test_light_calendar_without_light_says_so():
     fig = light_calendar_figure(year.__class__(2026, "gregorian", "s", [], year.divisions, dark), longitude_deg=0.0)
     assert "no light reaches the target in this year" in _texts(fig.axes[0])
     assert fig.axes[0].yaxis.get_major_formatter()(8.5, 0) == "08:30"
+
+
+def test_epoch_drift_ticks_on_round_bc_years():
+    import dataclasses
+
+    ancient = make_ancient_year()
+    years = [dataclasses.replace(ancient, year=y) for y in (-1799, -1649, -1499, -1349, -1199)]
+    fig = epoch_drift_figure(ScanResult("x", make_scan().settings, 1.0, years))
+    labels = sorted(t.get_text() for t in fig.axes[0].get_xticklabels())
+    assert labels == [f"{n} BC" for n in (1200, 1300, 1400, 1500, 1600, 1700, 1800)]

@@ -35,7 +35,7 @@ from pathlib import Path
 import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
-from matplotlib.ticker import FuncFormatter
+from matplotlib.ticker import FuncFormatter, MaxNLocator
 
 from lightpath.errors import InputError
 from lightpath.files import write_bytes_atomic
@@ -217,6 +217,9 @@ def epoch_drift_figure(scan: ScanResult, *, divisions: Sequence[str] | None = No
         ax.plot(x, last, "--s", color=colour, ms=3, lw=1.2, label=f"{division_label(name)}: last day")
     ax.axhline(0.0, color="black", lw=0.8)
     ax.annotate("division day", (x.min() if x.size else 0, 0), xytext=(2, 3), textcoords="offset points", fontsize=8)
+    if x.size and x.max() <= 0:  # all BC: put the ticks on round BC years (astronomical −1799 is 1800 BC)
+        bc = MaxNLocator(nbins=7, integer=True).tick_values(1 - x.max(), 1 - x.min())
+        ax.set_xticks([1 - b for b in bc if 1 - x.max() <= b <= 1 - x.min()])
     ax.xaxis.set_major_formatter(FuncFormatter(lambda v, _pos: year_label(round(v))))
     ax.set_xlabel("Year (BC/AD; computed in astronomical numbering)")
     ax.set_ylabel("Days from the division (days)")
