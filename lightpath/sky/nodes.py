@@ -62,6 +62,9 @@ def lagrange_on_grid(func: Func, t: NDArray, step: float, *, min_saving: float =
     if tt.size == 0:
         return _direct(func, flat, ok, np.shape(t))
     k = np.floor(tt / step)
+    span_nodes = (k.max() - k.min()) + 4.0
+    if span_nodes * min_saving > tt.size and np.unique(k).size * min_saving > tt.size:
+        return _direct(func, flat, ok, np.shape(t))  # sparse: each instant has its own interval
     needed = np.unique(np.concatenate([k - 1, k, k + 1, k + 2]))
     if needed.size * min_saving > tt.size:
         return _direct(func, flat, ok, np.shape(t))

@@ -68,12 +68,13 @@ SOURCES = ("auto", "jpl", "vsop87")
 VSOP87_NAME = "VSOP87D (Bretagnon & Francou 1988)"
 
 _C_AU_PER_DAY = erfa.DC  # speed of light, au/day
-# VSOP87's slow band (periods > 76 days) is sampled on 512-day Chebyshev blocks of degree 48 when that
+# VSOP87's slow band (periods > 76 days) is sampled on 128-day Chebyshev blocks of degree 16 when that
 # saves work, its fast band (94 terms: the Earth about the Earth–Moon barycentre, a few Mercury terms)
-# is summed at every instant; the precession matrix on 512-day blocks of degree 6.
+# is summed at every instant; the ecliptic matrix on 512-day blocks of degree 6.
 # Interpolation error < 0.001″ (tests/test_sun_vsop87.py).
-_SLOW_BLOCK_DAYS = 512.0
-_SLOW_DEGREE = 48
+_SLOW_BLOCK_DAYS = 128.0
+_SLOW_DEGREE = 16
+_MATRIX_BLOCK_DAYS = 512.0
 _MATRIX_DEGREE = 6
 
 
@@ -141,7 +142,7 @@ def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
     direction = erfa.ab(-earth / R[..., None], beta, R, bm1)
     apparent_ecl = direction * R[..., None]
     # VSOP87 ecliptic of date → GCRS: transpose of the long-term ecliptic matrix (Vondrák et al. 2011)
-    ecm = chebyshev_blocks(_ecliptic_matrix_columns, jd, _SLOW_BLOCK_DAYS, _MATRIX_DEGREE)
+    ecm = chebyshev_blocks(_ecliptic_matrix_columns, jd, _MATRIX_BLOCK_DAYS, _MATRIX_DEGREE)
     ecm = ecm.reshape(jd.shape + (3, 3))
     return np.einsum("...ji,...j->...i", ecm, apparent_ecl)
 
