@@ -10,7 +10,7 @@ import pytest
 from lightpath.cli import main
 from lightpath.sky.calendar import julian_day
 
-SITE = "53.6947,-6.4755,60"  # invented site in the Irish midlands
+SITE = "52.9137,-8.6612,60"  # invented site in the Irish midlands
 
 
 def _json(capsys, argv):
@@ -115,10 +115,10 @@ def test_lat_instant_is_apparent_noon(capsys):
     assert row["hour_angle_deg"] == pytest.approx(0.0, abs=1e-5)
     assert row["azimuth_deg"] == pytest.approx(180.0, abs=1e-4)
     # Meeus (1998) ch. 28: the equation of time is about -13.7 min in early February (from memory);
-    # apparent noon at 6.4755° W then comes at about 12:00 + 25.9 min + 13.7 min UT.
+    # apparent noon at 8.6612° W then comes at about 12:00 + 25.9 min + 13.7 min UT.
     assert row["equation_of_time_min"] == pytest.approx(-13.7, abs=0.5)
     ut_h = (row["jd_ut"] + 0.5) % 1 * 24
-    assert ut_h == pytest.approx(12 + 6.4755 / 15 - row["equation_of_time_min"] / 60, abs=1e-4)
+    assert ut_h == pytest.approx(12 + 8.6612 / 15 - row["equation_of_time_min"] / 60, abs=1e-4)
 
 
 def test_ancient_lat_run_and_uncertain_date(capsys):

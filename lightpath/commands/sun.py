@@ -2,8 +2,8 @@
 
 Examples (shell)::
 
-    lightpath sun --site 53.69,-6.48,60 --at "3200 BC-12-21T08:00 LAT"
-    lightpath sun --site 53.69,-6.48 --at 2027-02-03T07:00 --to 2027-02-03T09:00 --step 10 --json
+    lightpath sun --site 52.91,-8.66,60 --at "3200 BC-12-21T08:00 LAT"
+    lightpath sun --site 52.91,-8.66 --at 2027-02-03T07:00 --to 2027-02-03T09:00 --step 10 --json
 
 A table by default; ``--json`` prints one object per instant (a list when ``--to`` is given).
 """
