@@ -19,7 +19,7 @@ from lightpath.sky.deltat import ut_from_tt
 from lightpath.sky.divisions import divisions
 from lightpath.sky.observer import Observer
 from lightpath.sky.sun import sun_position
-from lightpath.study.light_days import LightDays, light_runs
+from lightpath.study.light_days import LightDays, area_centroid_m, light_runs
 
 SITE = Observer(latitude_deg=30.0, longitude_deg=31.0, elevation_m=0.0)
 EPOCH = -1499  # 1500 BC
@@ -50,7 +50,7 @@ def slit_window(
     s = sample_target(model.target(), count=samples, seed=0)
     window = compute_window(model.blocking_mesh(), s.points_m, s.normals, s.area_m2, latitude_deg,
                             opening=model.opening(), resolution_deg=resolution_deg)  # fmt: skip
-    axis = np.asarray(model.opening().centroid - model.target().centroid, dtype=float)
+    axis = area_centroid_m(model.opening()) - area_centroid_m(model.target())
     return window, axis
 
 
@@ -114,3 +114,45 @@ def test_hourly_track_interpolates_the_sun():
     pos = sun_position(jd_ut + dt / 86400.0, SITE, delta_t_s=dt)
     assert np.allclose(alt[0], pos.altitude_geometric_deg, atol=1e-3)
     assert np.allclose(((az[0] - pos.azimuth_deg + 180) % 360) - 180, 0.0, atol=1e-3)
+
+
+def test_position_shift_as_rotation_matches_a_recast_window():
+    """A target moved 5 cm in its plane: the small-angle rotation (Δ/d) stands for re-casting the window.
+
+    Thin opening (5 cm wall): agreement to a few thousandths of a degree; thick openings vignette and the
+    approximation loses accuracy (measured in docs/framing-test.md).
+    """
+    from lightpath.light.disc import lit_area_weighted
+    from lightpath.light.grid import enu_from_hadec
+    from lightpath.study.uncertainty import rotation_from_vector, shift_rotation_vector
+
+    model = slit_shrine(
+        100.0, rock_m=0.05, slit=Slot(width_m=0.1, height_m=0.3, sill_m=0.5), image=(-0.1, 0.1, 0.5, 0.7)
+    )
+    s = sample_target(model.target(), count=32, seed=0)
+    mesh, opening, lat = model.blocking_mesh(), model.opening(), 30.0
+    axis = area_centroid_m(opening) - area_centroid_m(model.target())
+    dist = float(np.linalg.norm(axis))
+    base = compute_window(mesh, s.points_m, s.normals, s.area_m2, lat, opening=opening, resolution_deg=0.05)
+    h, d = np.meshgrid(np.arange(-105.0, -75.0, 0.08), np.arange(-20.0, 20.0, 0.08))
+    dirs = enu_from_hadec(lat, h.ravel(), d.ravel())
+
+    def centroid(area):
+        v = (dirs * (area / area.sum())[:, None]).sum(axis=0)
+        return v / np.linalg.norm(v)
+
+    def angle_deg(a, b):
+        return float(np.degrees(np.arccos(np.clip(a @ b, -1.0, 1.0))))
+
+    c0 = centroid(lit_area_weighted(base, dirs))
+    normal = s.normals[0]
+    for delta in ([0.0, 0.0, 0.05], np.cross(normal, [0.0, 0.0, 1.0]) * 0.05):
+        delta = np.asarray(delta, dtype=float)
+        moved = compute_window(mesh, s.points_m + delta, s.normals, s.area_m2, lat, opening=opening,
+                               resolution_deg=0.05)  # fmt: skip
+        exact = centroid(lit_area_weighted(moved, dirs))
+        rot = rotation_from_vector(shift_rotation_vector(axis, dist, -delta))  # opening moves −Δ relative to it
+        approx = centroid(lit_area_weighted(base, dirs, rotation=rot))
+        shift = angle_deg(exact, c0)
+        assert shift > 0.2  # 5 cm at ~4 m is up to 0.7°; part of it is cut by the slit's ends
+        assert angle_deg(exact, approx) < 0.02 * shift

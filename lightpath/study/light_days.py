@@ -48,7 +48,14 @@ from lightpath.sky.sun import sun_position
 from lightpath.sky.vectors import azalt_from_enu, enu_from_azalt
 from lightpath.study.uncertainty import Draw, raise_altitude
 
-__all__ = ["DEFAULT_SPAN_DAYS", "LightDays", "default_span_days", "light_days_for_scene", "light_runs"]
+__all__ = [
+    "DEFAULT_SPAN_DAYS",
+    "LightDays",
+    "default_span_days",
+    "area_centroid_m",
+    "light_days_for_scene",
+    "light_runs",
+]
 
 #: Days searched on each side of a division.
 DEFAULT_SPAN_DAYS = 30
@@ -358,6 +365,12 @@ def _fractional_hour(hourly_h: NDArray, target_deg: float) -> NDArray:
     return np.clip(x, 0.0, n - 1.0)
 
 
+def area_centroid_m(mesh) -> NDArray:
+    """Area-weighted centre of a surface mesh's triangles (ENU metres); also right for an open, flat pane."""
+    weights = np.asarray(mesh.area_faces, dtype=float)
+    return (np.asarray(mesh.triangles_center, dtype=float) * weights[:, None]).sum(axis=0) / weights.sum()
+
+
 def light_days_for_scene(
     scene,
     *,
@@ -386,7 +399,7 @@ def light_days_for_scene(
                             cache_dir=cache_dir, progress=progress)  # fmt: skip
     light = LightDays(window, scene.observer, **settings)
     if scene.opening is not None:
-        axis = np.asarray(scene.opening.centroid, dtype=float) - np.asarray(scene.target.centroid, dtype=float)
+        axis = area_centroid_m(scene.opening) - area_centroid_m(scene.target)
         return light, axis, float(np.linalg.norm(axis))
     _, dirs = light._screen()
     mean = dirs.mean(axis=0)
