@@ -39,7 +39,7 @@ from numpy.typing import NDArray
 from lightpath.errors import InputError
 from lightpath.sky.calendar import year_label
 from lightpath.study.execution import run_draws
-from lightpath.study.light_days import LightDays
+from lightpath.study.light_days import UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.uncertainty import Tolerances, make_draws, nominal_draw
 
 __all__ = ["EpochRow", "EpochsResult", "alignment_epochs", "drift_days_per_century", "spans_of"]
@@ -210,6 +210,8 @@ def alignment_epochs(
         f"days are local mean solar days; day 0 is the day of {division}; the search covers ±{light.span_days} days",
         "draws use common random numbers: draw i has the same survey errors in every year",
     ]
+    if years[0] < VERIFIED_FROM_YEAR:
+        notes.append(UNVERIFIED_NOTE)
     if any(r.first_day is not None and r.first_day <= -light.span_days for r in rows) or any(
         r.last_day is not None and r.last_day >= light.span_days for r in rows
     ):

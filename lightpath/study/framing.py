@@ -43,7 +43,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from lightpath.errors import InputError
 from lightpath.study.execution import run_draws
-from lightpath.study.light_days import LightDays
+from lightpath.study.light_days import UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.null_model import NULL_MODEL_NAME, monte_carlo_p_value, null_azimuths, side_for, sun_arc
 from lightpath.study.uncertainty import Draw, Tolerances, make_draws, nominal_draw, rotation_about_up
 
@@ -307,6 +307,8 @@ def framing_test(
         "days are local mean solar days at the site; day 0 is the day of the division's instant",
         "null orientations keep the nominal sky and survey (no tolerances)",
     ]
+    if min([year, *(d.year for d in survey)]) < VERIFIED_FROM_YEAR:
+        notes.append(UNVERIFIED_NOTE)
     if obs_close.size and not np.isfinite(obs_close).all():
         notes.append(f"no light within ±{light.span_days} days of some divisions for the surveyed geometry")
     return FramingResult(

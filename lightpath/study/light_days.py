@@ -30,6 +30,7 @@ from azimuth and altitude) and ch. 16 (refraction); the Sun from :mod:`lightpath
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -44,9 +45,13 @@ from lightpath.light.window import SkyWindow
 from lightpath.sky.deltat import delta_t_s, delta_t_sigma_s
 from lightpath.sky.observer import Observer
 from lightpath.sky.refraction import apparent_altitude
+from lightpath.sky.sources import SunAccuracyWarning
 from lightpath.sky.sun import sun_position
 from lightpath.sky.vectors import azalt_from_enu, enu_from_azalt
 from lightpath.study.uncertainty import Draw, raise_altitude
+
+#: Earliest year whose Sun is checked against JPL DE406 (lightpath.sky.sources); earlier ones get a note.
+VERIFIED_FROM_YEAR = -2999
 
 __all__ = [
     "DEFAULT_SPAN_DAYS",
@@ -267,6 +272,14 @@ class LightDays:
         horizon_offset_deg : raise of the horizon profile, degrees.
         delta_t_z : ΔT error in units of its σ at each division.
         """
+        with warnings.catch_warnings():
+            # before 3000 BC every call would warn; the studies state it once in their notes instead
+            warnings.simplefilter("ignore", SunAccuracyWarning)
+            return self._evaluate(year, rotation, temperature_c, pressure_mbar, refraction_offset_deg,
+                                  horizon_offset_deg, delta_t_z)  # fmt: skip
+
+    def _evaluate(self, year, rotation, temperature_c, pressure_mbar, refraction_offset_deg, horizon_offset_deg,
+                  delta_t_z) -> NDArray:  # fmt: skip
         track = self._track(int(year))
         rot = np.eye(3) if rotation is None else np.asarray(rotation, dtype=float)
         n_div, n_days = track.midnight_ut.shape
