@@ -69,8 +69,6 @@ CRITERIA = {"first-gleam": 1e-3, "half-disc": 0.5, "full-disc": 0.99}
 SEMIDIAMETER_DEG = 959.63 / 3600.0
 #: Linear limb-darkening coefficient for visible light (Cox 2000, from memory).
 LIMB_DARKENING_U = 0.6
-#: Instants × samples per look-up batch (bounds memory).
-CHUNK = 4_000_000
 
 
 def _strip_area(t0: NDArray, t1: NDArray) -> NDArray:
@@ -92,40 +90,51 @@ def _uniform_fractions(window: SkyWindow, radius_deg: float) -> NDArray:
     cos_max = math.cos(math.radians(window.grid.declination_limit_deg))
     pad = int(math.ceil(r_d / cos_max)) + 2
     width = nh + 2 * pad + 1  # cumulative sums along H, one leading zero
-    cum = np.zeros((s_count, width, nd), np.float32)  # exact: counts below 2**24
-    np.cumsum(mask, axis=1, out=cum[:, pad + 1 : pad + 1 + nh])
-    cum[:, pad + 1 + nh :] = cum[:, pad + nh : pad + nh + 1]
+    cum = np.zeros((s_count, nd, width), np.float32)  # rows contiguous in H; exact: counts below 2**24
+    np.cumsum(mask.transpose(0, 2, 1), axis=2, out=cum[:, :, pad + 1 : pad + 1 + nh])
+    cum[:, :, pad + 1 + nh :] = cum[:, :, pad + nh : pad + nh + 1]
     flat = cum.reshape(-1)
-    out = np.zeros((s_count, nh, nd), np.float32)
     rows = int(math.ceil(r_d + 0.5))
-    delta = np.radians(window.grid.d_center(window.d0[:, None] + np.arange(nd)[None, :]))  # (S, nd) output rows
-    r_h = r_d / np.cos(delta)  # semi-axis in H cells, per sample and output row
-    col = (np.arange(nh, dtype=np.int64) * nd)[None, :, None]
+    # only output rows with sky within the disc's reach can differ from 0
+    near = mask.any(axis=1)
+    reach = np.zeros_like(near)
+    for dj in range(-rows, rows + 1):
+        lo, hi = max(0, -dj), min(nd, nd - dj)
+        if hi > lo:
+            reach[:, lo:hi] |= near[:, lo + dj : hi + dj]
+    s_p, j_p = np.nonzero(reach)
+    out = np.zeros((s_count, nh, nd), np.float32)
+    if s_p.size == 0:
+        return out
+    delta = np.radians(window.grid.d_center(window.d0[s_p] + j_p))
+    r_h = r_d / np.cos(delta)  # semi-axis in H cells, per output row
+    acc = np.zeros((s_p.size, nh), np.float32)
+    col = np.arange(nh, dtype=np.int64)[None, :]
     for dj in range(-rows, rows + 1):
         t0, t1 = (dj - 0.5) / r_d, (dj + 0.5) / r_d
         if t0 >= 1.0 or t1 <= -1.0:
             continue
-        lo_j, hi_j = max(0, -dj), min(nd, nd - dj)  # output rows whose source row j + dj exists
-        if hi_j <= lo_j:
+        sel = np.flatnonzero((j_p + dj >= 0) & (j_p + dj < nd))
+        if sel.size == 0:
             continue
         height = (min(t1, 1.0) - max(t0, -1.0)) * r_d
         # this strip's share of the ellipse as a segment of equal area, half-length a (cells)
-        a = r_h[:, lo_j:hi_j] * r_d * _strip_area(np.float64(t0), np.float64(t1)) / (2.0 * height)
-        rows_src = np.arange(lo_j, hi_j) + dj
-        strip = np.zeros((s_count, nh, hi_j - lo_j), np.float32)
+        a = r_h[sel] * r_d * _strip_area(np.float64(t0), np.float64(t1)) / (2.0 * height)
+        row_start = (s_p[sel] * nd + j_p[sel] + dj) * width
+        strip = np.zeros((sel.size, nh), np.float32)
         for sign in (1.0, -1.0):
-            # position of the segment's end for output cell i: i + pad + 0.5 ± a = i + K + f
+            # the segment's end for output cell i sits at i + pad + 0.5 ± a = i + K + f
             x = pad + 0.5 + sign * a
             k = np.floor(x).astype(np.int64)
-            f = (x - k).astype(np.float32)[:, None, :]
-            start = (np.arange(s_count, dtype=np.int64)[:, None] * width + k) * nd + rows_src[None, :]
-            idx = start[:, None, :] + col
+            f = (x - k).astype(np.float32)[:, None]
+            idx = (row_start + k)[:, None] + col
             c0 = np.take(flat, idx)
-            c1 = np.take(flat, idx + nd)
+            c1 = np.take(flat, idx + 1)
             strip += np.float32(sign) * (c0 + f * (c1 - c0))
-        out[:, :, lo_j:hi_j] += np.float32(height) * strip
-    out /= (math.pi * r_h * r_d).astype(np.float32)[:, None, :]
-    return np.clip(out, 0.0, 1.0)
+        acc[sel] += np.float32(height) * strip
+    acc /= (math.pi * r_h * r_d).astype(np.float32)[:, None]
+    out[s_p, :, j_p] = np.clip(acc, 0.0, 1.0)
+    return out
 
 
 def disc_fractions(
@@ -218,32 +227,88 @@ def disc_fraction(
     s_count, nh, nd = frac.shape
     out = np.zeros((len(s), s_count), np.float64)
     flat = frac.reshape(-1)
-    step = max(1, CHUNK // max(s_count, 1))
     n_h, wrap = window.grid.n_h, window.wrap_cells
-    sample_base = np.arange(s_count, dtype=np.int64) * (nh * nd)
-    h0 = window.h0.astype(np.float64) + wrap
-    d0 = window.d0.astype(np.float64)
-    for a in range(0, len(s), step):
-        b = slice(a, a + step)
-        lh = np.mod(fh[b, None] - h0[None, :], n_h) + wrap
-        ld = fd[b, None] - d0[None, :]
-        ok = (lh >= 0) & (lh < nh - 1) & (ld >= 0) & (ld < nd - 1) & (hfac[b, None] > 0)
-        m, k = np.nonzero(ok)  # only the samples whose box holds the Sun
-        if m.size == 0:
-            continue
-        x, y = lh[m, k], ld[m, k]
-        i0, j0 = x.astype(np.int64), y.astype(np.int64)
-        fi, fj = x - i0, y - j0
-        base = sample_base[k] + i0 * nd + j0
-        f00, f01 = np.take(flat, base), np.take(flat, base + 1)
-        f10, f11 = np.take(flat, base + nd), np.take(flat, base + nd + 1)
-        val = (f00 * (1 - fi) + f10 * fi) * (1 - fj) + (f01 * (1 - fi) + f11 * fi) * fj
-        if edge == "low":
-            val = val**1.5
-        elif edge == "high":
-            val = 1.0 - val**1.5
-        out[m + a, k] = val * hfac[m + a]
+    indptr, members = _sample_blocks(window, semidiameter_deg, limb_darkening_u)
+    # the samples that can see part of the disc from each instant's block of cells, as (instant, sample) pairs
+    i_glob = np.floor(fh).astype(np.int64)
+    j_glob = np.floor(fd).astype(np.int64)
+    live = (j_glob >= -1) & (j_glob < window.grid.n_d) & (hfac > 0)
+    block = np.where(live, (np.mod(i_glob, n_h) // BLOCK_CELLS) * _n_blocks_d(window) + (j_glob + 1) // BLOCK_CELLS, 0)
+    counts = np.where(live, indptr[block + 1] - indptr[block], 0)
+    total = int(counts.sum())
+    if total == 0:
+        return out
+    m = np.repeat(np.arange(len(s)), counts)
+    first = np.repeat(indptr[block] - (np.cumsum(counts) - counts), counts)
+    k = members[first + np.arange(total)]
+    lh = np.mod(fh[m] - window.h0[k] - wrap, n_h) + wrap
+    ld = fd[m] - window.d0[k]
+    ok = (lh >= 0) & (lh < nh - 1) & (ld >= 0) & (ld < nd - 1)
+    m, k, x, y = m[ok], k[ok], lh[ok], ld[ok]
+    i0, j0 = x.astype(np.int64), y.astype(np.int64)
+    fi, fj = x - i0, y - j0
+    base = k * (nh * nd) + i0 * nd + j0
+    f00, f01 = np.take(flat, base), np.take(flat, base + 1)
+    f10, f11 = np.take(flat, base + nd), np.take(flat, base + nd + 1)
+    val = (f00 * (1 - fi) + f10 * fi) * (1 - fj) + (f01 * (1 - fi) + f11 * fi) * fj
+    if edge == "low":
+        val = val**1.5
+    elif edge == "high":
+        val = 1.0 - val**1.5
+    out[m, k] = val * hfac[m]
     return out
+
+
+#: Side of the blocks of cells (in cells) by which samples are indexed for look-ups.
+BLOCK_CELLS = 8
+
+
+def _n_blocks_d(window: SkyWindow) -> int:
+    return (window.grid.n_d + 1) // BLOCK_CELLS + 1
+
+
+def _sample_blocks(window: SkyWindow, semidiameter_deg: float, limb_darkening_u: float | None):
+    """CSR index (indptr, samples): for each block of cells, the samples whose disc fraction can be > 0 there.
+
+    A sample is listed in every block holding a cell (i0, j0) whose bilinear corners touch its cells with
+    fraction > 0.  Cached on the window.
+    """
+    key = ("blocks", round(float(semidiameter_deg), 9), limb_darkening_u)
+    if key in window._fractions:
+        return window._fractions[key]
+    frac = disc_fractions(window, semidiameter_deg, limb_darkening_u)
+    g, b = window.grid, BLOCK_CELLS
+    n_bh, n_bd = -(-g.n_h // b), _n_blocks_d(window)
+    rows: list[NDArray] = []
+    owners: list[NDArray] = []
+    any_h = (frac > 0).any(axis=2)
+    any_d = (frac > 0).any(axis=1)
+    for s in range(frac.shape[0]):  # one small step per sample, once per window
+        ih = np.flatnonzero(any_h[s])
+        jd = np.flatnonzero(any_d[s])
+        if ih.size == 0:
+            continue
+        g_lo, g_hi = window.h0[s] + ih[0] - 1, window.h0[s] + ih[-1]
+        if g_hi - g_lo + 1 >= g.n_h:
+            hb = np.arange(n_bh)
+        else:
+            hb = np.unique(np.mod(np.arange(g_lo, g_hi + 1), g.n_h) // b)
+        j_lo, j_hi = window.d0[s] + jd[0] - 1, window.d0[s] + jd[-1]
+        db = np.arange((max(j_lo, -1) + 1) // b, (min(j_hi, g.n_d - 1) + 1) // b + 1)
+        cells = (hb[:, None] * n_bd + db[None, :]).ravel()
+        rows.append(cells)
+        owners.append(np.full(cells.size, s, dtype=np.int64))
+    if rows:
+        cells = np.concatenate(rows)
+        who = np.concatenate(owners)
+        order = np.argsort(cells, kind="stable")
+        cells, who = cells[order], who[order]
+        indptr = np.searchsorted(cells, np.arange(n_bh * n_bd + 1))
+    else:
+        who = np.zeros(0, np.int64)
+        indptr = np.zeros(n_bh * n_bd + 1, np.int64)
+    window._fractions[key] = (indptr.astype(np.int64), who)
+    return window._fractions[key]
 
 
 #: Which end of the fraction each criterion tests, for :func:`disc_fraction`'s ``edge``.

@@ -87,6 +87,25 @@ def union_map(window: SkyWindow, limb_darkening_u: float | None = None) -> NDArr
     return union
 
 
+def _in_union(window: SkyWindow, directions: NDArray, rotation, limb_darkening_u) -> NDArray[np.bool_]:
+    """(M,) bool: the direction's cell, or one within 2 cells, is in the union of the windows."""
+    g = window.grid
+    key = ("union+2", limb_darkening_u)
+    if key not in window._fractions:
+        u = union_map(window, limb_darkening_u).astype(np.uint8)
+        u = maximum_filter1d(u, size=5, axis=0, mode="wrap")
+        window._fractions[key] = maximum_filter1d(u, size=5, axis=1) > 0
+    grown = window._fractions[key]
+    look = directions if rotation is None else directions @ np.asarray(rotation, dtype=np.float64)
+    fh, fd = g.fractional_index(*hadec_from_enu(g.latitude_deg, look))
+    k = np.mod(np.rint(fh).astype(np.int64), g.n_h)
+    j = np.rint(fd).astype(np.int64)
+    out = np.zeros(len(look), bool)
+    inside = (j >= 0) & (j < g.n_d)
+    out[inside] = grown[k[inside], j[inside]]
+    return out
+
+
 def _widen_h(union: NDArray, cells: int) -> NDArray:
     """Union widened by ``cells`` along the (circular) hour-angle axis."""
     if cells <= 0:
@@ -181,10 +200,12 @@ def find_light(
     look = dirs_c if rotation is None else dirs_c @ np.asarray(rotation, dtype=np.float64)
     h, d = hadec_from_enu(g.latitude_deg, look)
     fh, fd = g.fractional_index(h, d)
-    widened = _widen_h(union, int(math.ceil(coarse_min * H_RATE_DEG_PER_MIN / g.resolution_deg)) + 2)
-    widened = (
-        maximum_filter1d(widened.astype(np.uint8), size=2 * int(math.ceil(0.3 / g.resolution_deg)) + 1, axis=1) > 0
-    )
+    wkey = ("widened", limb_darkening_u, float(coarse_min))
+    if wkey not in window._fractions:
+        grown = _widen_h(union, int(math.ceil(coarse_min * H_RATE_DEG_PER_MIN / g.resolution_deg)) + 2)
+        grown = maximum_filter1d(grown.astype(np.uint8), size=2 * int(math.ceil(0.3 / g.resolution_deg)) + 1, axis=1)
+        window._fractions[wkey] = grown > 0
+    widened = window._fractions[wkey]
     k = np.mod(np.rint(fh).astype(int), g.n_h)
     j = np.rint(fd).astype(int)
     inside = (j >= 0) & (j < g.n_d)
@@ -198,7 +219,12 @@ def find_light(
     segments = [np.arange(a, b + 0.5 * step, step) for a, b in fine_spans]
     tf = np.concatenate(segments)
     _, dirs_f = sun_enu(sun, tf)
-    area_f, weighted_f, top_f = lit_areas(window, dirs_f, criterion, with_max=True, **lookup)
+    area_f, weighted_f, top_f = np.zeros(len(tf)), np.zeros(len(tf)), np.zeros(len(tf))
+    possible = _in_union(window, dirs_f, rotation, limb_darkening_u)  # one look-up per instant, not per sample
+    if possible.any():
+        area_f[possible], weighted_f[possible], top_f[possible] = lit_areas(
+            window, dirs_f[possible], criterion, with_max=True, **lookup
+        )
     # probe around unlit local maxima of the best sample's fraction: light shorter than a step hides there
     seg_id = np.repeat(np.arange(len(segments)), [len(x) for x in segments])
     inner = np.zeros(len(tf), bool)
