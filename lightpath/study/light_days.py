@@ -52,12 +52,19 @@ from lightpath.study.uncertainty import Draw, raise_altitude
 
 #: Earliest year whose Sun is checked against JPL DE406 (lightpath.sky.sources); earlier ones get a note.
 VERIFIED_FROM_YEAR = -2999
+#: The note studies add when they reach before it.
+UNVERIFIED_NOTE = (
+    "Sun positions before 3000 BC come from VSOP87D beyond the span checked against JPL DE406 (-3000..+3000); "
+    "their error is estimated, not measured (see docs/sun-model.md)"
+)
 
 __all__ = [
     "DEFAULT_SPAN_DAYS",
+    "UNVERIFIED_NOTE",
+    "VERIFIED_FROM_YEAR",
     "LightDays",
-    "default_span_days",
     "area_centroid_m",
+    "default_span_days",
     "light_days_for_scene",
     "light_runs",
 ]
