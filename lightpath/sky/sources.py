@@ -68,11 +68,11 @@ SOURCES = ("auto", "jpl", "vsop87")
 VSOP87_NAME = "VSOP87D (Bretagnon & Francou 1988)"
 
 _C_AU_PER_DAY = erfa.DC  # speed of light, au/day
-# VSOP87's slow band (periods > 76 days) is sampled on 128-day Chebyshev blocks of degree 16 when that
-# saves work, its fast band (94 terms: the Earth about the Earth–Moon barycentre, a few Mercury terms)
+# VSOP87's slow band (periods > 120 days) is sampled on 256-day Chebyshev blocks of degree 16 when that
+# saves work, its fast band (158 terms: the Earth about the Earth–Moon barycentre, Mercury's terms)
 # is summed at every instant; the ecliptic matrix on 512-day blocks of degree 6.
 # Interpolation error < 0.001″ (tests/test_sun_vsop87.py).
-_SLOW_BLOCK_DAYS = 128.0
+_SLOW_BLOCK_DAYS = 256.0
 _SLOW_DEGREE = 16
 _MATRIX_BLOCK_DAYS = 512.0
 _MATRIX_DEGREE = 6

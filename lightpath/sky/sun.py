@@ -18,8 +18,9 @@ Pipeline (the same for both sources, :mod:`lightpath.sky.sources`):
    Sæmundsson 1986, scaled by pressure and temperature) or none.
 
 Speed: steps 1–2 (the costly part) are evaluated at 0.5-day nodes and
-interpolated (cubic Lagrange) when the instants are dense enough to save work;
-inside them, the slowly changing pieces (VSOP87's terms with periods over 76
+interpolated (cubic Lagrange) when the instants are dense enough to save work,
+or on 32-day Chebyshev blocks of degree 20 for sets of about one instant a day;
+inside them, the slowly changing pieces (VSOP87's terms with periods over 120
 days, precession, obliquity, nutation and the CIO-locator series) are sampled
 on Chebyshev blocks (:mod:`lightpath.sky.nodes`) when that saves work.  Each
 shortcut is compared with direct evaluation in ``tests/test_sun_sources.py``
@@ -86,6 +87,8 @@ _SLOW_BLOCK_DAYS = 512.0
 _SLOW_DEGREE = 6
 _NUTATION_BLOCK_DAYS = 32.0
 _NUTATION_DEGREE = 20
+_CORE_BLOCK_DAYS = 32.0
+_CORE_DEGREE = 20
 _THREADS = 2  # large requests are split in two halves computed side by side (numpy and ERFA release the GIL)
 _THREAD_MIN_INSTANTS = 200_000
 _R2D = 180.0 / np.pi
@@ -175,12 +178,17 @@ def _core(src: SunSource, jd: NDArray) -> NDArray:
 
 
 def _core_at(src: SunSource, jd_tt: NDArray) -> NDArray:
-    """The core at every instant: from 0.5-day nodes for dense sets; big sets in two threads."""
+    """The core at every instant: from 0.5-day nodes or 32-day blocks when that saves work; big sets in two threads."""
     jd = np.asarray(jd_tt, dtype=float)
     flat = jd.reshape(-1)
 
+    def blocked(t: NDArray) -> NDArray:
+        # moderately dense sets (≥ 0.66 instants per day): the whole core on 32-day Chebyshev blocks
+        return chebyshev_blocks(lambda u: _core(src, u), t, _CORE_BLOCK_DAYS, _CORE_DEGREE)
+
     def run(part: NDArray) -> NDArray:
-        return lagrange_on_grid(lambda t: _core(src, t), part, _NODE_STEP_DAYS)
+        # dense sets (≥ 2 instants per day): cubic Lagrange from 0.5-day nodes
+        return lagrange_on_grid(blocked, part, _NODE_STEP_DAYS)
 
     if flat.size < _THREAD_MIN_INSTANTS:
         return run(jd)

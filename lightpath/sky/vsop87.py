@@ -72,8 +72,8 @@ VSOP87_PROVENANCE = "VSOP87D Earth (Bretagnon & Francou 1988), full series via P
 _CHUNK = 2048  # instants per block: keeps the (block × terms) work arrays around 10 MB
 
 #: Terms with periods shorter than this (days) form the "fast" band (the Earth about the Earth–Moon
-#: barycentre and a few Mercury terms, 94 terms at the default tolerance); the rest is the "slow" band.
-FAST_PERIOD_DAYS = 76.0
+#: barycentre and Mercury's terms, 158 terms at the default tolerance); the rest is the "slow" band.
+FAST_PERIOD_DAYS = 120.0
 _FAST_C = 2.0 * np.pi * JULIAN_MILLENNIUM_DAYS / FAST_PERIOD_DAYS  # rad per Julian millennium
 BANDS = ("all", "fast", "slow")
 
