@@ -105,3 +105,16 @@ def test_connect_cluster_by_address(dask_client):
         client.close()
     with pytest.raises(InputError, match="--cluster"):
         connect_cluster("tcp://127.0.0.1:9")
+
+
+def test_frame_command_on_a_cluster_gives_the_serial_json(dask_client, capsys):
+    """``lightpath frame --cluster ADDRESS`` returns the same JSON as a serial run."""
+    from lightpath.cli import main
+    from lightpath.site.scene import demo_scene_path
+
+    argv = ["frame", str(demo_scene_path("shrine")), "--epoch", "-1499±0", "--division", "cross_quarter_aug"]
+    argv += ["--draws", "4", "--null-draws", "4", "--samples", "16", "--resolution", "0.1", "--json", "--quiet"]
+    assert main([*argv, "--workers", "1"]) == 0
+    serial = capsys.readouterr().out
+    assert main([*argv, "--cluster", dask_client.scheduler.address]) == 0
+    assert capsys.readouterr().out == serial
