@@ -73,8 +73,10 @@ def part_two(n_days: int, lat: float, lon: float, elev: float) -> None:
     import erfa
 
     from lightpath.sky.observer import Observer
+    from lightpath.sky.sources import SunAccuracyWarning
     from lightpath.sky.sun import geocentric_sun, sun_position
 
+    warnings.simplefilter("ignore", SunAccuracyWarning)  # expected: most of these instants precede 3000 BC
     start = sum(erfa.epj2jd(-10000.0)) + 1.0
     jd = start + np.arange(n_days, dtype=float)
     obs = Observer(lat, lon, elev)

@@ -164,7 +164,8 @@ def warn_if_unverified(source: SunSource, jd_tt: ArrayLike) -> None:
     if np.any(jd[np.isfinite(jd)] < lo):
         warnings.warn(
             "Sun positions before 3000 BC come from VSOP87D beyond the span checked against JPL DE406 "
-            "(-3000..+3000); their error is estimated, not measured (see docs/sun-model.md)",
+            "(3000 BC to AD 3000, within 10 arcsec there); estimated, not measured, error: ~25 arcsec by "
+            "5000 BC, ~2 arcmin by 10,000 BC (docs/sun-model.md)",
             SunAccuracyWarning,
             stacklevel=3,
         )
