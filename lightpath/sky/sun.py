@@ -24,8 +24,7 @@ inside them, the slowly changing pieces (VSOP87's terms with periods over 120
 days, precession, obliquity, nutation and the CIO-locator series) are sampled
 on Chebyshev blocks (:mod:`lightpath.sky.nodes`) when that saves work.  Each
 shortcut is compared with direct evaluation in ``tests/test_sun_sources.py``
-and ``tests/test_sun_vsop87.py``: < 0.001″.  Requests of 200,000 instants or
-more run in two threads.
+and ``tests/test_sun_vsop87.py``: < 0.001″.
 
 VSOP87D before 3000 BC (outside the span checked against JPL DE406) raises a
 :class:`~lightpath.sky.sources.SunAccuracyWarning`.
@@ -89,8 +88,6 @@ _NUTATION_BLOCK_DAYS = 32.0
 _NUTATION_DEGREE = 20
 _CORE_BLOCK_DAYS = 32.0
 _CORE_DEGREE = 20
-_THREADS = 2  # large requests are split in two halves computed side by side (numpy and ERFA release the GIL)
-_THREAD_MIN_INSTANTS = 200_000
 _R2D = 180.0 / np.pi
 
 
@@ -178,25 +175,14 @@ def _core(src: SunSource, jd: NDArray) -> NDArray:
 
 
 def _core_at(src: SunSource, jd_tt: NDArray) -> NDArray:
-    """The core at every instant: from 0.5-day nodes or 32-day blocks when that saves work; big sets in two threads."""
-    jd = np.asarray(jd_tt, dtype=float)
-    flat = jd.reshape(-1)
+    """The core at every instant: from 0.5-day nodes or 32-day blocks when that saves work."""
 
     def blocked(t: NDArray) -> NDArray:
         # moderately dense sets (≥ 0.66 instants per day): the whole core on 32-day Chebyshev blocks
         return chebyshev_blocks(lambda u: _core(src, u), t, _CORE_BLOCK_DAYS, _CORE_DEGREE)
 
-    def run(part: NDArray) -> NDArray:
-        # dense sets (≥ 2 instants per day): cubic Lagrange from 0.5-day nodes
-        return lagrange_on_grid(blocked, part, _NODE_STEP_DAYS)
-
-    if flat.size < _THREAD_MIN_INSTANTS:
-        return run(jd)
-    from concurrent.futures import ThreadPoolExecutor
-
-    with ThreadPoolExecutor(max_workers=_THREADS) as pool:
-        parts = list(pool.map(run, np.array_split(flat, _THREADS)))
-    return np.concatenate(parts).reshape(jd.shape + (parts[0].shape[-1],))
+    # dense sets (≥ 2 instants per day): cubic Lagrange from 0.5-day nodes
+    return lagrange_on_grid(blocked, np.asarray(jd_tt, dtype=float), _NODE_STEP_DAYS)
 
 
 def _geocentric_angles(cols: NDArray) -> tuple[NDArray, ...]:
