@@ -1,10 +1,82 @@
 """lightpath: when sunlight enters an opening and reaches a chosen surface inside.
 
-The public API is gathered here as the layers land; see ``docs/index.md``.
+A small public API for notebooks; the command line is a thin layer over it.
+
+>>> import lightpath
+>>> obs = lightpath.Observer(latitude_deg=52.9, longitude_deg=-8.7)
+>>> jd = lightpath.julian_day(2027, 6, 21.5)
+>>> sun = lightpath.sun_position(jd, obs)
+>>> bool(sun.altitude_deg > 55)
+True
+
+Names are imported on first use, so ``import lightpath`` stays quick.
 """
 
 from __future__ import annotations
 
+import importlib
+from typing import Any
+
 __version__ = "0.1.0"
 
-__all__ = ["__version__"]
+# name -> module that defines it (layers: sky, site, light, study, present).
+_EXPORTS = {
+    # sky: time, calendars, the Sun, the year
+    "InputError": "lightpath.errors",
+    "Observer": "lightpath.sky.observer",
+    "julian_day": "lightpath.sky.calendar",
+    "calendar_date": "lightpath.sky.calendar",
+    "format_date": "lightpath.sky.calendar",
+    "date_label": "lightpath.sky.calendar",
+    "parse_instant": "lightpath.sky.instants",
+    "resolve_instant": "lightpath.sky.instants",
+    "delta_t_s": "lightpath.sky.deltat",
+    "delta_t_sigma_s": "lightpath.sky.deltat",
+    "sun_position": "lightpath.sky.sun",
+    "geocentric_sun": "lightpath.sky.sun",
+    "enu_from_azalt": "lightpath.sky.sun",
+    "azalt_from_enu": "lightpath.sky.sun",
+    "refraction_bennett1982": "lightpath.sky.refraction",
+    "refraction_saemundsson1986": "lightpath.sky.refraction",
+    "quarter_days": "lightpath.sky.seasons",
+    "season_lengths": "lightpath.sky.seasons",
+    "half_years": "lightpath.sky.seasons",
+    "divisions": "lightpath.sky.divisions",
+    "rise_set_azimuths": "lightpath.sky.riseset",
+    "HorizonProfile": "lightpath.sky.horizon",
+    "flat_horizon": "lightpath.sky.horizon",
+    "read_horizon_csv": "lightpath.sky.horizon",
+    # site: scenes and chambers
+    "load_scene": "lightpath.site",
+    "sample_target": "lightpath.site",
+    "scene_from_model": "lightpath.site",
+    "demo_scene_path": "lightpath.site",
+    "passage_chamber": "lightpath.site",
+    "slit_shrine": "lightpath.site",
+    "window_room": "lightpath.site",
+    # light: the engine
+    "prepare_window": "lightpath.light.scan",
+    "scan_scene": "lightpath.light.scan",
+    "scan_window": "lightpath.light.scan",
+    # study: claims and visits
+    "framing_test": "lightpath.study.framing",
+    "alignment_epochs": "lightpath.study.epochs",
+    "visit_scene": "lightpath.study.visit",
+    # present: reports
+    "make_report": "lightpath.present.scene_report",
+}
+
+__all__ = ["__version__", *_EXPORTS]
+
+
+def __getattr__(name: str) -> Any:
+    module = _EXPORTS.get(name)
+    if module is None:
+        raise AttributeError(f"module 'lightpath' has no attribute {name!r}")
+    value = getattr(importlib.import_module(module), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(__all__)

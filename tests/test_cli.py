@@ -48,3 +48,10 @@ def test_atomic_write_has_usual_mode_and_leaves_nothing_on_failure(tmp_path):
         write_atomic(path, broken)
     assert path.read_text() == "first"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["a.txt"]
+
+
+def test_public_api_names_resolve():
+    import lightpath
+
+    for name in lightpath.__all__:
+        assert getattr(lightpath, name) is not None, name
