@@ -4,7 +4,7 @@ Run: ``/tmp/dev/bin/python benchmarks/bench_frame.py [--site shrine] [--draws 10
 
 The sky window is built once before the clocks start (as a study does).  Then the same framing test
 (``--draws`` survey draws of the scene's tolerances at the scene's own epoch with no epoch spread, and
-``--null-draws`` null orientations) runs
+``--null-draws`` null orientations; 1,000 of each by default, on the passage demo) runs
 
 1. serially in this process (the baseline),
 2. on a local process pool of ``--workers`` spawned processes (their start-up is timed: it is part of the cost),
@@ -21,6 +21,7 @@ from __future__ import annotations
 import argparse
 import json
 import os
+import resource
 import time
 
 #: The epoch each demo site was built for (see lightpath/demo_models/*/README.md).
@@ -29,9 +30,9 @@ EPOCHS = {"passage": -3199, "shrine": -1499, "window": 2026}
 
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--site", choices=tuple(EPOCHS), default="shrine")
+    parser.add_argument("--site", choices=tuple(EPOCHS), default="passage")
     parser.add_argument("--draws", type=int, default=1000)
-    parser.add_argument("--null-draws", type=int, default=0)
+    parser.add_argument("--null-draws", type=int, default=1000)
     parser.add_argument("--workers", type=int, default=2)
     parser.add_argument("--samples", type=int, default=100)
     parser.add_argument("--skip-dask", action="store_true")
@@ -52,20 +53,30 @@ def main() -> None:
     common = dict(year=EPOCHS[args.site], axis_enu=axis, distance_m=distance, tolerances=tol, epoch_sigma_years=0.0,
                   within_days=3, draws=args.draws, null_draws=args.null_draws, seed=0)  # fmt: skip
 
+    def children_cpu_s():
+        r = resource.getrusage(resource.RUSAGE_CHILDREN)
+        return r.ru_utime + r.ru_stime
+
     def timed(label, **where):
         light._cache.clear()  # every run starts cold: Sun tracks and look-up screens rebuilt
         c0, w0 = time.process_time(), time.perf_counter()
         result = framing_test(light, **common, **where)
         wall, cpu = time.perf_counter() - w0, time.process_time() - c0
         print(f"{label:<34} {wall:8.2f} s wall  ({cpu:6.2f} s CPU in this process)")
-        return wall, json.dumps(to_jsonable(result), sort_keys=True)
+        return wall, cpu, json.dumps(to_jsonable(result), sort_keys=True)
 
     n = args.draws + args.null_draws + 1
     print(f"{n} evaluations (1 nominal + {args.draws} survey draws + {args.null_draws} null orientations), "
           f"{os.cpu_count()} CPUs, load average {os.getloadavg()[0]:.2f}")  # fmt: skip
-    serial, ref = timed("serial")
-    pool, out = timed(f"local process pool, {args.workers} workers", workers=args.workers)
+    serial, serial_cpu, ref = timed("serial")
+    before = children_cpu_s()
+    pool, _, out = timed(f"local process pool, {args.workers} workers", workers=args.workers)
+    pool_cpu = children_cpu_s() - before  # the workers' CPU, counted once the pool has shut down
     assert out == ref, "the pool's result differs from the serial one"
+    print(
+        f"  CPU: serial {serial_cpu:.2f} s; pool workers {pool_cpu:.2f} s in all (start-up and imports included); "
+        f"CPU-bound speedup {serial_cpu / (pool_cpu / args.workers):.2f}x if every worker had a free core"
+    )
     rows = [("local process pool", pool)]
     if not args.skip_dask:
         from distributed import Client, LocalCluster
@@ -73,7 +84,7 @@ def main() -> None:
         with LocalCluster(n_workers=args.workers, threads_per_worker=1, processes=True, host="127.0.0.1",
                           dashboard_address=None) as cluster, Client(cluster) as client:  # fmt: skip
             client.run(lambda: __import__("lightpath.study.light_days"))  # imports happen before the clock
-            dask_wall, out = timed(f"dask LocalCluster, {args.workers} workers", client=client)
+            dask_wall, _, out = timed(f"dask LocalCluster, {args.workers} workers", client=client)
         assert out == ref, "the dask result differs from the serial one"
         rows.append(("dask LocalCluster", dask_wall))
     print(f"per evaluation, serial: {1000 * serial / n:.1f} ms; results identical on every back end")
