@@ -126,8 +126,9 @@ def opening_reach(points_m: ArrayLike, opening: trimesh.Trimesh, sun_enu: ArrayL
     instants at which no ray could pass the opening.
     """
     pts = np.asarray(points_m, float).reshape(-1, 3)
-    centre = np.asarray(opening.bounding_sphere.primitive.center, float)
-    radius = float(opening.bounding_sphere.primitive.radius)
+    v = np.asarray(opening.vertices, float)
+    centre = 0.5 * (v.min(axis=0) + v.max(axis=0))
+    radius = float(np.max(np.linalg.norm(v - centre, axis=1)))  # a sphere holding every corner
     to = centre[None, :] - pts
     dist = np.linalg.norm(to, axis=1)
     half = np.degrees(np.arcsin(np.clip(radius / np.maximum(dist, 1e-12), 0.0, 1.0)))

@@ -185,11 +185,17 @@ class _Hits:
 
 
 def _opening_width_deg(opening: trimesh.Trimesh, points_m: NDArray) -> float:
-    """Narrowest angular width of the opening seen from the farthest sample, degrees."""
-    extents = np.sort(np.asarray(opening.bounding_box_oriented.primitive.extents, dtype=float))
-    width = extents[1] if extents.size >= 2 else extents[-1]  # the smallest is the pane's thickness
-    far = float(np.max(np.linalg.norm(points_m - np.asarray(opening.centroid, float), axis=1)))
-    return math.degrees(width / max(far, 1e-9))
+    """Narrowest angular width of any pane of the opening seen from the farthest sample, degrees."""
+    widths = []
+    far = 0.0
+    for pane in opening.split(only_watertight=False) or [opening]:
+        v = np.asarray(pane.vertices, dtype=float)
+        centre = v.mean(axis=0)
+        axes = np.linalg.svd(v - centre, full_matrices=False)[2]  # principal axes of the pane's corners
+        extents = np.sort(np.ptp((v - centre) @ axes.T, axis=0))
+        widths.append(extents[-2] if extents.size >= 2 else extents[-1])  # the smallest is the thickness
+        far = max(far, float(np.max(np.linalg.norm(points_m - centre, axis=1))))
+    return math.degrees(min(widths) / max(far, 1e-9))
 
 
 def _cast_cells(caster, grid, origins, normals, h_idx, d_idx, s_idx) -> NDArray[np.bool_]:
