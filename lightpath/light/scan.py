@@ -23,6 +23,8 @@ the per-division summary.
 
 from __future__ import annotations
 
+import dataclasses
+import warnings
 from collections.abc import Callable, Sequence
 from pathlib import Path
 
@@ -243,7 +245,52 @@ def scan_year(
     limb_darkening_u: float | None = None,
     step_min: float = 1.0,
 ) -> YearScan:
-    """Every light event of one year and the per-division summary (see :func:`scan_window`)."""
+    """Every light event of one year and the per-division summary (see :func:`scan_window`).
+
+    Warnings raised by the Sun model or the divisions (e.g. epochs beyond the checked span) are
+    recorded once each in the year's ``notes`` instead of being printed.
+    """
+    options = dict(
+        criterion=criterion,
+        scheme=scheme,
+        parts=parts,
+        source=source,
+        delta_t_s=delta_t_s,
+        calendar=calendar,
+        with_light_map=with_light_map,
+        rotation=rotation,
+        horizon_offset_deg=horizon_offset_deg,
+        limb_darkening_u=limb_darkening_u,
+        step_min=step_min,
+    )
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        result = _scan_year(window, observer, year, **options)
+    notes = list(result.notes)
+    for w in caught:
+        text = f"{w.category.__name__}: {w.message}"
+        if text not in notes:
+            notes.append(text)
+    return dataclasses.replace(result, notes=notes)
+
+
+def _scan_year(
+    window,
+    observer,
+    year,
+    *,
+    criterion,
+    scheme,
+    parts,
+    source,
+    delta_t_s,
+    calendar,
+    with_light_map,
+    rotation,
+    horizon_offset_deg,
+    limb_darkening_u,
+    step_min,
+) -> YearScan:
     from lightpath.sky.divisions import divisions
 
     sun = sun_for(observer, source, delta_t_s)
@@ -278,12 +325,18 @@ def scan_year(
         days = np.array([], dtype=np.int64)
         source_name = div_pos.source
     in_year = [x for x, d in zip(intervals, days, strict=True) if first <= d <= last]
-    events = light_events(in_year, sun, observer, divs, window.total_area_m2, calendar, ut_date_uncertain)
+    # with a fixed ΔT (σ = 0) the UT date is as certain as the ΔT given
+    uncertain = ut_date_uncertain if delta_t_s is None else None
+    events = light_events(in_year, sun, observer, divs, window.total_area_m2, calendar, uncertain)
     report = [i for i, d in enumerate(div_days) if first <= d <= last]
     summary = division_runs(days, divs, div_days, report, calendar)
-    span = (first - MARGIN_DAYS, last + MARGIN_DAYS)
-    if len(days) and (days.min() <= span[0] or days.max() >= span[1]):
-        notes.append(f"light falls on days up to {MARGIN_DAYS} days beyond the year's ends; runs there may be longer")
+    span = (first - MARGIN_DAYS + 1, last + MARGIN_DAYS - 1)
+    for i, d in zip(report, summary, strict=True):
+        if d.days and (div_days[i] + d.first_offset_days <= span[0] or div_days[i] + d.last_offset_days >= span[1]):
+            notes.append(
+                f"the run of light days around {d.name} reaches the sweep's edge ({MARGIN_DAYS} days beyond the "
+                "year); it may be longer"
+            )
     light_map = None
     if with_light_map:
         lookup = {
