@@ -58,6 +58,7 @@ from pathlib import Path
 import numpy as np
 import trimesh
 from numpy.typing import ArrayLike, NDArray
+from scipy.ndimage import maximum_filter
 
 from lightpath.errors import InputError
 from lightpath.files import write_atomic
@@ -360,7 +361,8 @@ def compute_window(
             rays += n
         h = np.broadcast_to(grid.h_center(flat_k), hits.shape)
         d = np.broadcast_to(grid.d_center(flat_j), hits.shape)
-        boxes = _boxes_from_directions(grid, h, d, hits, margin + step * res)
+        boxes = _boxes_from_directions(grid, h, d, hits, margin + 2 * step * res)
+        lattice = (step, hits.reshape(len(pts), kk.size, jj.size))
         notes.append(f"no opening given: sky found by a {step * res:g}° search lattice; narrower sky can be missed")
     h0, nh_s, d0, nd_s, full = boxes
     levels = _levels(coarse_deg, res)
@@ -402,8 +404,19 @@ def compute_window(
             escape[s_i, i_i, j_i] = out
             rays += n
     else:
-        escape, n = _multilevel(caster, grid, origins, nrm, h0, d0, nh, nd, levels, progress)
-        rays += n
+        # every cell within two lattice steps of an escaping lattice ray is cast at full resolution
+        step, hits = lattice
+        grown = maximum_filter(hits.astype(np.uint8), size=(1, 5, 5), mode=("constant", "wrap", "nearest")) > 0
+        i, j = np.meshgrid(np.arange(nh), np.arange(nd), indexing="ij")
+        node_k = (np.mod(h0[:, None, None] + i[None], grid.n_h) // step) % hits.shape[1]
+        node_j = np.clip((d0[:, None, None] + j[None]) // step, 0, hits.shape[2] - 1)
+        gate = grown[np.arange(len(pts))[:, None, None], node_k, node_j]
+        escape = np.zeros(gate.shape, bool)
+        s_i, i_i, j_i = np.nonzero(gate)
+        if s_i.size:
+            out, n = _cast_cells(caster, grid, origins, nrm, h0[s_i] + i_i, d0[s_i] + j_i, s_i)
+            escape[s_i, i_i, j_i] = out
+            rays += n
     window = SkyWindow(
         grid, pts, nrm, area, h0.astype(np.int64), d0.astype(np.int64), escape, wrap, offset, rays, key, notes
     )
