@@ -9,7 +9,9 @@ import argparse
 import importlib
 import re
 import sys
+import warnings
 from collections.abc import Sequence
+from pathlib import Path
 
 from lightpath import __version__
 from lightpath.errors import InputError
@@ -20,6 +22,7 @@ __all__ = ["COMMANDS", "build_parser", "main"]
 COMMANDS = ("sun", "year", "inspect", "scan", "visit", "report", "frame", "epochs", "demo")
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
+_PACKAGE_DIR = str(Path(__file__).resolve().parent)
 
 
 class _Parser(argparse.ArgumentParser):
@@ -77,6 +80,21 @@ def _join_negative_values(argv: Sequence[str]) -> list[str]:
     return out
 
 
+def _print_notices(command: str, caught: list[warnings.WarningMessage], debug: bool) -> None:
+    """lightpath's own warnings (e.g. an unverified Sun before 3000 BC) as one-line notices on stderr.
+
+    Warnings from other libraries are shown only with ``--debug``.
+    """
+    seen: set[str] = set()
+    for w in caught:
+        ours = w.filename.startswith(_PACKAGE_DIR) and issubclass(w.category, UserWarning)
+        text = " ".join(str(w.message).split())
+        if text in seen or not (ours or debug):
+            continue
+        seen.add(text)
+        print(f"lightpath {command}: notice: {text}", file=sys.stderr)
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     parser = build_parser()
@@ -85,7 +103,11 @@ def main(argv: Sequence[str] | None = None) -> int:
         parser.print_help()
         return EXIT_OK
     try:
-        return int(args._run(args) or EXIT_OK)
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("default")
+            code = int(args._run(args) or EXIT_OK)
+        _print_notices(args.command, caught, debug=args.debug)
+        return code
     except InputError as exc:
         print(f"lightpath {args.command}: error: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT

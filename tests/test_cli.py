@@ -55,3 +55,16 @@ def test_public_api_names_resolve():
 
     for name in lightpath.__all__:
         assert getattr(lightpath, name) is not None, name
+
+
+def test_accuracy_warning_becomes_one_line_notice():
+    # 3200 BC is before the span checked against JPL DE406, so the Sun source warns.
+    proc = subprocess.run(
+        [sys.executable, "-m", "lightpath", "sun", "--site", "52.91,-8.66", "--at", "3200 BC-12-21T08:00 LAT"],
+        capture_output=True,
+        text=True,
+    )
+    assert proc.returncode == 0
+    notices = [line for line in proc.stderr.splitlines() if "notice:" in line]
+    assert len(notices) == 1 and "3000 BC" in notices[0]
+    assert "Warning" not in proc.stderr

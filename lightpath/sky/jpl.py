@@ -26,6 +26,7 @@ and Earth satellites generator. Astrophysics Source Code Library, ascl:1907.024.
 
 from __future__ import annotations
 
+import atexit
 import functools
 import os
 import warnings
@@ -73,6 +74,7 @@ def load_kernel(path: str):
         kernel = SpiceKernel(path)
     except Exception as exc:  # noqa: BLE001 - any failure to parse is the user's file
         raise InputError(f"--ephemeris: {path!r} is not a readable JPL SPK kernel ({exc.__class__.__name__})") from None
+    atexit.register(kernel.close)  # the kernel stays open (cached) for the whole run
     pairs = {(s.center, s.target) for s in kernel.segments}
     for need in ((0, 10), (0, 3), (3, 399)):
         if need not in pairs:
