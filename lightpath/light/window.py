@@ -13,24 +13,25 @@ Each sample gets a box of (H, δ) cells, all boxes with one shape:
 
 * **with an opening** (the scene's aperture mesh): the box the opening subtends
   from the sample (its vertices and points along its edges), plus a margin of
-  0.4° + 2 cells for the Sun's disc.  Light can only arrive through the opening
-  in a closed model; a model with other holes must mark them as openings too.
+  0.4° + 2 cells for the Sun's disc.  Which cells' rays pass through the
+  opening's pane is resolved coarse-to-fine (rays on a lattice whose step is
+  under a third of the pane's narrowest angular width and under ``coarse_deg``,
+  then every cell of the lattice squares whose corners disagree, and of their
+  neighbours); every cell whose ray passes the pane is then cast against the
+  mesh at full resolution, so thin slivers between thick walls are never
+  inferred.  Light can only arrive through the opening in a closed model; a
+  model with other holes must mark them as openings too.
 * **without one**: a search pass casts rays on a lattice of ``search_deg``
-  (1° by default) over the whole band; the box then covers every escaping
-  lattice ray plus one lattice step and the margin.  A patch of sky narrower
-  than about ``search_deg`` can fall between lattice rays and be missed: give
-  the opening when you have it.
-
-Inside a box the mask is resolved coarse-to-fine: rays on a lattice of
-``coarse_deg`` (0.2° by default), then rays in every cell of the lattice squares
-whose corners disagree, and of their neighbours, halving the step down to
-``resolution_deg``.  A patch of sky (or an obstacle) smaller than ``coarse_deg``
-lying wholly inside a square whose corners and neighbours all agree is missed;
-0.2° is under half the Sun's disc (0.53°).
+  (1° by default) over the whole band; the box covers every escaping lattice
+  ray plus two lattice steps and the margin, and every cell within two lattice
+  steps of an escaping lattice ray is cast.  A patch of sky narrower than about
+  ``search_deg`` that no lattice ray passes is missed: give the opening when you
+  have it.
 
 Resolution and minutes: the Sun moves 0.25° of hour angle per minute, so a
 0.05° cell is 12 s of time; light start and end times carry about half a cell
-of error from the mask's edges (≈ 6 s at 0.05°, ≈ 1 min at 0.5°).
+of error from the mask's edges (median ≈ 6 s at 0.05°, 18 s at 0.1°; measured
+in docs/engine.md).
 
 >>> import numpy as np, trimesh
 >>> tube = trimesh.creation.box(extents=(1.0, 1.0, 1.0))  # a closed cube: no sky at all
