@@ -114,7 +114,7 @@ def patch_frames(
 
     Asks the engine's disc look-up (:func:`lightpath.light.disc.disc_fraction`) at each instant.
     """
-    from lightpath.light.disc import disc_fraction, meets
+    from lightpath.light.disc import CRITERION_EDGE, disc_fraction, meets
     from lightpath.light.scan import sun_for
     from lightpath.light.sweep import sun_enu
     from lightpath.sky.deltat import tt_from_ut
@@ -122,7 +122,7 @@ def patch_frames(
     span = event.end_jd_ut - event.start_jd_ut
     jd_ut = event.start_jd_ut + span * (np.arange(frames) + 0.5) / frames
     pos, dirs = sun_enu(sun_for(observer, source), tt_from_ut(jd_ut))
-    lit = meets(disc_fraction(window, dirs), criterion)
+    lit = meets(disc_fraction(window, dirs, edge=CRITERION_EDGE[criterion]), criterion)
     hours = np.mod(np.asarray(pos.local_apparent_time_h, dtype=float), 24.0)
     labels = [f"{int(h):02d}:{int(round((h % 1) * 60)) % 60:02d} LAT" for h in hours]
     return lit, labels
