@@ -8,7 +8,8 @@ returns ``[func(t) for t in tasks]`` in task order whatever the back end:
   the ``spawn`` method (safe with threads, with embree and on every platform); ``func``
   is sent once to each worker through the pool initializer and the tasks travel in
   chunks, so a large ``func`` (a callable object holding a sky window) is not
-  pickled once per task;
+  pickled once per task; each worker runs its numerical libraries on one thread
+  (:data:`WORKER_THREAD_ENV`, unless the environment already says otherwise);
 - ``client=dask.distributed.Client``: ``func`` is scattered once to every worker
   and the chunks are submitted as tasks of the cluster.
 
@@ -34,13 +35,14 @@ scheduling. *Proceedings of the 14th Python in Science Conference*, 130-136.
 from __future__ import annotations
 
 import multiprocessing
+import pickle
 from collections.abc import Callable, Sequence
 from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
 from typing import Any
 
 from lightpath.errors import InputError
 
-__all__ = ["chunk_ranges", "connect_cluster", "describe_backend", "run_draws"]
+__all__ = ["WORKER_THREAD_ENV", "chunk_ranges", "connect_cluster", "describe_backend", "run_draws"]
 
 #: Chunks per worker: small enough to balance uneven draws, large enough to keep overhead low.
 CHUNKS_PER_WORKER = 4
@@ -70,9 +72,20 @@ def chunk_ranges(n_tasks: int, n_chunks: int) -> list[tuple[int, int]]:
     return ranges
 
 
-def _init_worker(func: Callable[[Any], Any]) -> None:
+#: Thread counts of the numerical libraries in pool workers: one each, as dask's workers have by default.
+#: Two workers on two cores that each start a multi-threaded BLAS fight over the cores (measured: the
+#: engine's look-up took twice the CPU time for the same wall time with OpenBLAS's default threads).
+WORKER_THREAD_ENV = {"OMP_NUM_THREADS": "1", "OPENBLAS_NUM_THREADS": "1", "MKL_NUM_THREADS": "1"}
+
+
+def _init_worker(func_pickle: bytes) -> None:
+    import os
+    import pickle
+
+    for key, value in WORKER_THREAD_ENV.items():  # before numpy loads (unpickling the function imports it)
+        os.environ.setdefault(key, value)
     global _WORKER_FUNC
-    _WORKER_FUNC = func
+    _WORKER_FUNC = pickle.loads(func_pickle)
 
 
 def _run_chunk_in_worker(tasks: Sequence[Any]) -> list[Any]:
@@ -136,7 +149,10 @@ def _run_pool(func, tasks, workers, report, chunks_per_worker) -> list[Any]:
     results: list[Any] = [None] * len(tasks)
     context = multiprocessing.get_context("spawn")
     with ProcessPoolExecutor(
-        max_workers=min(workers, len(ranges)), mp_context=context, initializer=_init_worker, initargs=(func,)
+        max_workers=min(workers, len(ranges)),
+        mp_context=context,
+        initializer=_init_worker,
+        initargs=(pickle.dumps(func, protocol=pickle.HIGHEST_PROTOCOL),),
     ) as pool:
         pending = {pool.submit(_run_chunk_in_worker, tasks[a:b]): (a, b) for a, b in ranges}
         while pending:
