@@ -37,6 +37,9 @@ valid for long time intervals. *Astronomy & Astrophysics* 534, A22 (erratum
 McCarthy, D. D., & Luzum, B. J. (2003). An abridged model of the precession-
 nutation of the celestial pole. *Celestial Mechanics and Dynamical Astronomy* 85, 37–49.
 
+Laskar, J. (1986). Secular terms of classical planetary theories using the
+results of general theory. *A&A* 157, 59–70 (general precession in longitude).
+
 Capitaine, N., & Wallace, P. T. (2006). High precision methods for locating
 the celestial intermediate pole and origin. *A&A* 450, 855–872 (``s06``, ``eors``).
 
@@ -55,6 +58,8 @@ __all__ = [
     "bias_precession_nutation_matrix",
     "earth_rotation_angle_deg",
     "ecliptic_matrix",
+    "general_precession_laskar1986_rad",
+    "general_precession_vondrak2011_rad",
     "equation_of_origins_deg",
     "greenwich_apparent_sidereal_time_deg",
     "julian_epoch",
@@ -102,6 +107,50 @@ def ecliptic_matrix(jd_tt: ArrayLike) -> NDArray:
     Vondrák et al. (2011) via ``erfa.ltecm``; ``v_ecliptic = E @ v_gcrs``.
     """
     return erfa.ltecm(julian_epoch(jd_tt))
+
+
+def general_precession_laskar1986_rad(jd_tt: ArrayLike) -> NDArray:
+    """General precession in longitude p_A of Laskar (1986), radians, from J2000.
+
+    The precession built into VSOP87D's "mean ecliptic and equinox of date": the secular
+    (zero-frequency) terms of VSOP87D's Earth longitude, minus the Earth's mean motion in the fixed
+    frame, reproduce these coefficients through τ⁵ to the printed digits (``tests/test_sun_vsop87.py``).
+    Coefficients from memory (Laskar 1986; T in Julian millennia from J2000).
+
+    >>> round(float(general_precession_laskar1986_rad(2451545.0 + 36525.0)) * 206264.806, 3)  # AD 2100
+    5030.209
+    """
+    tm = (_jd(jd_tt) - 2451545.0) / 365250.0
+    coeffs = (0.00017451, -0.0018055, -0.235316, 0.07732, 111.1971, 50290.966)  # T^6 … T^1, arcsec
+    return np.polyval(coeffs + (0.0,), tm) / 206264.80624709636  # Laskar (1986) p_A
+
+
+def general_precession_vondrak2011_rad(jd_tt: ArrayLike) -> NDArray:
+    """General precession in longitude p_A of the long-term model (Vondrák et al. 2011), radians.
+
+    Found geometrically from ``erfa.ltecm``: p_A is the longitude of the node of the ecliptic of
+    date on the J2000 ecliptic, measured in the ecliptic of date from the equinox of date, minus
+    the same node's longitude in the J2000 ecliptic (the definition of Lieske et al. 1977).  Within
+    a micro-arcsecond of J2000, where the node is undefined, the IAU 2006 polynomial
+    (5028.796195″t + 1.1054348″t², t in centuries) is used.
+
+    >>> round(float(general_precession_vondrak2011_rad(2451545.0 + 36525.0)) * 206264.806, 3)  # AD 2100
+    5029.901
+    """
+    jd = _jd(jd_tt)
+    ecm = erfa.ltecm(julian_epoch(jd))
+    e0 = erfa.ltecm(2000.0)
+    node = np.cross(e0[2], ecm[..., 2, :])
+    norm = np.linalg.norm(node, axis=-1)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        node = node / norm[..., None]
+        a = np.einsum("...ij,...j->...i", ecm, node)
+        b = np.einsum("ij,...j->...i", e0, node)
+        p = np.arctan2(a[..., 1], a[..., 0]) - np.arctan2(b[..., 1], b[..., 0])
+    p = (p + np.pi) % (2.0 * np.pi) - np.pi
+    t = (jd - 2451545.0) / 36525.0
+    near = (5028.796195 * t + 1.1054348 * t**2) / 206264.80624709636  # Capitaine et al. (2003) P03 p_A
+    return np.where(norm > 1e-11, p, near)
 
 
 def mean_obliquity_deg(jd_tt: ArrayLike) -> NDArray:

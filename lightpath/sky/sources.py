@@ -9,7 +9,8 @@ nutation, Earth rotation, parallax, refraction; see :mod:`lightpath.sky.sun`).
 * ``"vsop87"``: VSOP87D for the Earth (Bretagnon & Francou 1988), geocentric by
   reversing the heliocentric vector, annual aberration from the series' own
   velocity (ERFA ``ab``), then from the VSOP87 mean ecliptic and equinox of date
-  to the GCRS with the long-term ecliptic matrix of Vondrák et al. (2011).
+  (equinox by the precession of Laskar 1986) to the GCRS with the long-term
+  ecliptic matrix of Vondrák et al. (2011) (:func:`vsop87_frame_matrix`).
   Heliocentric light time is left out on purpose: the Sun's motion about the
   barycentre during the 8.3 minutes of light time and its share in the Earth's
   barycentric velocity cancel to first order.
@@ -27,6 +28,7 @@ outside a kernel's own span) raise :class:`~lightpath.errors.InputError`.
 References
 ----------
 Bretagnon, P., & Francou, G. (1988). *A&A* 202, 309–315 (VSOP87).
+Laskar, J. (1986). *A&A* 157, 59–70 (general precession in longitude).
 Vondrák, J., Capitaine, N., & Wallace, P. (2011). *A&A* 534, A22.
 Urban, S. E., & Seidelmann, P. K. (eds.) (2013). *Explanatory Supplement to the
 Astronomical Almanac*, 3rd ed., eq. 7.40 (aberration, as in ERFA ``ab``).
@@ -55,6 +57,7 @@ __all__ = [
     "SunSource",
     "choose_source",
     "long_term_span_jd_tt",
+    "vsop87_frame_matrix",
     "vsop87_sun_gcrs_apparent_au",
     "warn_if_unverified",
 ]
@@ -110,8 +113,29 @@ def _vsop_columns(jd: NDArray, band: str = "all") -> NDArray:
     return np.stack([L, B, R, dL, dB, dR], axis=-1)
 
 
+def vsop87_frame_matrix(jd_tt: ArrayLike) -> NDArray:
+    """GCRS → VSOP87D's mean ecliptic and equinox of date, shape (..., 3, 3); ``v_vsop = M @ v_gcrs``.
+
+    VSOP87D's equinox of date carries the general precession in longitude of Laskar (1986), built
+    into its series; our pipeline uses Vondrák et al. (2011).  The ecliptics of date agree (to
+    < 3.2″ over −3000…+3000, measured against DE406), the equinoxes do not (3″ per millennium near
+    J2000, ~150″ at 3000 BC between Laskar's and Lieske's polynomials), so ``M = R3(−Δp) · E`` with
+    ``E`` the long-term ecliptic matrix (``erfa.ltecm``) and Δp = p_A(Laskar 1986) − p_A(Vondrák 2011).
+
+    >>> m = vsop87_frame_matrix(np.array([2451545.0, 625400.0]))
+    >>> m.shape
+    (2, 3, 3)
+    """
+    jd = np.asarray(jd_tt, dtype=float)
+    dp = orientation.general_precession_laskar1986_rad(jd) - orientation.general_precession_vondrak2011_rad(jd)
+    c, s = np.cos(dp), np.sin(dp)
+    r3 = np.zeros(jd.shape + (3, 3))
+    r3[..., 0, 0], r3[..., 0, 1], r3[..., 1, 0], r3[..., 1, 1], r3[..., 2, 2] = c, -s, s, c, 1.0  # R3(−Δp), ERFA form
+    return np.matmul(r3, orientation.ecliptic_matrix(jd))
+
+
 def _ecliptic_matrix_columns(jd: NDArray) -> NDArray:
-    return orientation.ecliptic_matrix(jd).reshape(-1, 9)
+    return vsop87_frame_matrix(jd).reshape(-1, 9)
 
 
 def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
@@ -141,7 +165,7 @@ def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
     bm1 = np.sqrt(1.0 - np.sum(beta**2, axis=-1))
     direction = erfa.ab(-earth / R[..., None], beta, R, bm1)
     apparent_ecl = direction * R[..., None]
-    # VSOP87 ecliptic of date → GCRS: transpose of the long-term ecliptic matrix (Vondrák et al. 2011)
+    # VSOP87 ecliptic and equinox of date → GCRS: Laskar (1986) equinox back to Vondrák et al. (2011), then ltecm^T
     ecm = chebyshev_blocks(_ecliptic_matrix_columns, jd, _MATRIX_BLOCK_DAYS, _MATRIX_DEGREE)
     ecm = ecm.reshape(jd.shape + (3, 3))
     return np.einsum("...ji,...j->...i", ecm, apparent_ecl)
@@ -164,8 +188,8 @@ def warn_if_unverified(source: SunSource, jd_tt: ArrayLike) -> None:
     if np.any(jd[np.isfinite(jd)] < lo):
         warnings.warn(
             "Sun positions before 3000 BC come from VSOP87D beyond the span checked against JPL DE406 "
-            "(3000 BC to AD 3000, within 10 arcsec there); estimated, not measured, error: ~25 arcsec by "
-            "5000 BC, ~2 arcmin by 10,000 BC (docs/sun-model.md)",
+            "(3000 BC to AD 3000, within 3.2 arcsec there); estimated, not measured, error: ~3 arcsec by "
+            "5000 BC, ~11 arcsec by 10,000 BC (docs/sun-model.md)",
             SunAccuracyWarning,
             stacklevel=3,
         )
