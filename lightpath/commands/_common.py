@@ -14,7 +14,15 @@ import numpy as np
 
 from lightpath.errors import InputError
 
-__all__ = ["add_output_options", "parse_site", "print_json", "progress_bar", "to_jsonable"]
+__all__ = [
+    "add_air_options",
+    "add_output_options",
+    "observer_from_options",
+    "parse_site",
+    "print_json",
+    "progress_bar",
+    "to_jsonable",
+]
 
 
 def parse_site(text: str, option: str = "--site") -> tuple[float, float, float]:
@@ -41,6 +49,35 @@ def parse_site(text: str, option: str = "--site") -> tuple[float, float, float]:
     if not -500.0 <= elev <= 9000.0:
         raise InputError(f"{option}: elevation {elev:g} m is outside -500..9000 m")
     return lat, lon, elev
+
+
+def add_air_options(parser: argparse.ArgumentParser, no_refraction_help: str) -> None:
+    """``--temperature``, ``--pressure`` and ``--no-refraction`` for commands that take ``--site``."""
+    parser.add_argument("--temperature", type=float, default=10.0, metavar="C", help="air temperature (default 10 °C)")
+    parser.add_argument("--pressure", type=float, default=1010.0, metavar="MBAR", help="air pressure (default 1010)")
+    parser.add_argument("--no-refraction", action="store_true", help=no_refraction_help)
+
+
+def observer_from_options(args: argparse.Namespace):
+    """An :class:`~lightpath.sky.observer.Observer` from ``--site`` and the air options, each checked."""
+    from lightpath.sky.observer import Observer
+
+    lat, lon, elev = parse_site(args.site)
+    for option, value in (("--temperature", args.temperature), ("--pressure", args.pressure)):
+        if not math.isfinite(value):
+            raise InputError(f"{option}: {value!r} is not a finite number")
+    try:
+        return Observer(
+            latitude_deg=lat,
+            longitude_deg=lon,
+            elevation_m=elev,
+            temperature_c=float(args.temperature),
+            pressure_mbar=float(args.pressure),
+            refraction=None if args.no_refraction else "bennett1982",
+        )
+    except InputError as exc:
+        option = "--pressure" if str(exc).startswith("pressure") else "--temperature"
+        raise InputError(f"{option}: {exc}") from None
 
 
 def add_output_options(parser: argparse.ArgumentParser) -> None:

@@ -19,7 +19,12 @@ import sys
 import numpy as np
 from numpy.typing import ArrayLike
 
-from lightpath.commands._common import add_output_options, parse_site, progress_bar
+from lightpath.commands._common import (
+    add_air_options,
+    add_output_options,
+    observer_from_options,
+    progress_bar,
+)
 from lightpath.errors import InputError
 from lightpath.sky import deltat
 from lightpath.sky.calendar import CALENDARS, calendar_for, format_date
@@ -61,9 +66,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     )
     parser.add_argument("--to", metavar="INSTANT", help="last instant of a run from --at (same forms as --at)")
     parser.add_argument("--step", type=float, metavar="MINUTES", help="spacing of a run (default 60 minutes)")
-    parser.add_argument("--temperature", type=float, default=10.0, metavar="C", help="air temperature (default 10 °C)")
-    parser.add_argument("--pressure", type=float, default=1010.0, metavar="MBAR", help="air pressure (default 1010)")
-    parser.add_argument("--no-refraction", action="store_true", help="geometric altitudes only (no refraction)")
+    add_air_options(parser, "geometric altitudes only (no refraction)")
     parser.add_argument(
         "--calendar",
         choices=CALENDARS,
@@ -76,19 +79,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
 
 def _observer(args: argparse.Namespace) -> Observer:
-    lat, lon, elev = parse_site(args.site)
-    try:
-        return Observer(
-            latitude_deg=lat,
-            longitude_deg=lon,
-            elevation_m=elev,
-            temperature_c=float(args.temperature),
-            pressure_mbar=float(args.pressure),
-            refraction=None if args.no_refraction else "bennett1982",
-        )
-    except InputError as exc:
-        option = "--pressure" if str(exc).startswith("pressure") else "--temperature"
-        raise InputError(f"{option}: {exc}") from None
+    return observer_from_options(args)
 
 
 def _source(args: argparse.Namespace) -> str:

@@ -21,7 +21,13 @@ import warnings
 
 import numpy as np
 
-from lightpath.commands._common import add_output_options, parse_site, print_json, progress_bar
+from lightpath.commands._common import (
+    add_air_options,
+    add_output_options,
+    observer_from_options,
+    print_json,
+    progress_bar,
+)
 from lightpath.errors import InputError
 from lightpath.files import write_text_atomic
 from lightpath.sky.calendar import CALENDARS, calendar_for, format_date, year_from_label, year_label
@@ -61,30 +67,13 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--horizon", metavar="FILE", help="skyline CSV with header azimuth_deg,altitude_deg")
     parser.add_argument("--calendar", choices=CALENDARS, default="auto", help="calendar of the dates (default auto)")
     parser.add_argument("--source", choices=SOURCES, default="auto", help="Sun position source (default auto)")
-    parser.add_argument("--temperature", type=float, default=10.0, metavar="C", help="air temperature (default 10 °C)")
-    parser.add_argument("--pressure", type=float, default=1010.0, metavar="MBAR", help="air pressure (default 1010)")
-    parser.add_argument("--no-refraction", action="store_true", help="geometric horizon crossings (no refraction)")
+    add_air_options(parser, "geometric horizon crossings (no refraction)")
     parser.add_argument("--csv", metavar="FILE", help="also write the divisions as CSV (atomically)")
     add_output_options(parser)
 
 
 def _observer(args: argparse.Namespace) -> Observer:
-    lat, lon, elev = parse_site(args.site)
-    for option, value in (("--temperature", args.temperature), ("--pressure", args.pressure)):
-        if not math.isfinite(value):
-            raise InputError(f"{option}: {value!r} is not a finite number")
-    try:
-        return Observer(
-            latitude_deg=lat,
-            longitude_deg=lon,
-            elevation_m=elev,
-            temperature_c=float(args.temperature),
-            pressure_mbar=float(args.pressure),
-            refraction=None if args.no_refraction else "bennett1982",
-        )
-    except InputError as exc:
-        option = "--pressure" if str(exc).startswith("pressure") else "--temperature"
-        raise InputError(f"{option}: {exc}") from None
+    return observer_from_options(args)
 
 
 def _year(text: str) -> int:
