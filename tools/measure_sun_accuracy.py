@@ -42,7 +42,7 @@ def modern(n: int) -> None:
         ts, eph = load.timescale(builtin=True), load("de421.bsp")
     rng = np.random.default_rng(1900)  # RNG seed
     jd = 2415020.5 + rng.random(n) * (2469807.5 - 2415020.5)
-    sites = [(51.18, -1.83, 100.0), (-33.9, 18.4, 10.0), (29.98, 31.13, 60.0), (64.1, -21.9, 30.0)]
+    sites = [(51.0, -3.0, 100.0), (-35.0, 20.0, 10.0), (28.0, 35.0, 60.0), (65.0, -20.0, 30.0)]
     out = {"jpl": [], "vsop87": []}
     for k, (la, lo, h) in enumerate(sites):
         part = jd[k :: len(sites)]

@@ -38,6 +38,8 @@ from collections.abc import Callable
 import numpy as np
 from numpy.typing import NDArray
 
+from lightpath.threads import split_map
+
 __all__ = ["chebyshev_blocks", "lagrange_on_grid"]
 
 Func = Callable[[NDArray], NDArray]
@@ -63,7 +65,7 @@ def lagrange_on_grid(func: Func, t: NDArray, step: float, *, min_saving: float =
         return _direct(func, flat, ok, np.shape(t))
     k = np.floor(tt / step)
     span_nodes = (k.max() - k.min()) + 4.0
-    if span_nodes * min_saving > tt.size and np.unique(k).size * min_saving > tt.size:
+    if span_nodes * min_saving > tt.size and _unique_inverse(k)[0].size * min_saving > tt.size:
         return _direct(func, flat, ok, np.shape(t))  # sparse: each instant has its own interval
     needed = np.unique(np.concatenate([k - 1, k, k + 1, k + 2]))
     if needed.size * min_saving > tt.size:
@@ -106,7 +108,7 @@ def chebyshev_blocks(func: Func, t: NDArray, block_days: float, degree: int, *, 
     if tt.size == 0:
         return _direct(func, flat, ok, np.shape(t))
     block = np.floor(tt / block_days)
-    blocks, inverse = np.unique(block, return_inverse=True)
+    blocks, inverse = _unique_inverse(block)
     n = degree + 1
     if blocks.size * n * min_saving > tt.size:
         return _direct(func, flat, ok, np.shape(t))
@@ -116,20 +118,35 @@ def chebyshev_blocks(func: Func, t: NDArray, block_days: float, degree: int, *, 
     samples = np.asarray(func((centre[:, None] + half * xj[None, :]).reshape(-1)))
     q = samples.shape[-1]
     coeffs = np.einsum("kj,bjq->bkq", to_coeff, samples.reshape(blocks.size, n, q))
+    out = split_map(lambda u, inv: _clenshaw(coeffs, centre, half, u, inv), tt, inverse)
+    return _scatter(out, flat, ok, np.shape(t))
+
+
+def _unique_inverse(values: NDArray) -> tuple[NDArray, NDArray]:
+    """``np.unique(values, return_inverse=True)``, without the sort when ``values`` is already ascending."""
+    step = np.diff(values)
+    if np.all(step >= 0.0):
+        first = np.concatenate([[True], step > 0.0])
+        return values[first], np.cumsum(first) - 1
+    return np.unique(values, return_inverse=True)
+
+
+def _clenshaw(coeffs: NDArray, centre: NDArray, half: float, tt: NDArray, inverse: NDArray) -> NDArray:
+    """The Chebyshev series of block ``inverse[i]`` at each instant ``tt[i]`` (Press et al. 2007, eq. 5.8.11)."""
+    n, q = coeffs.shape[1], coeffs.shape[2]
     out = np.empty((tt.size, q))
     for i in range(0, tt.size, _CLENSHAW_CHUNK):  # chunks keep the gathered coefficients small
         sl = slice(i, i + _CLENSHAW_CHUNK)
         inv = inverse[sl]
         u = (tt[sl] - centre[inv]) / half  # -1 ≤ u < 1
         c = coeffs[inv]  # (m, n, q)
-        # Clenshaw recurrence (Press et al. 2007, eq. 5.8.11)
         b1 = np.zeros((u.size, q))
         b2 = np.zeros((u.size, q))
         two_u = (2.0 * u)[:, None]
         for k in range(n - 1, 0, -1):
             b1, b2 = two_u * b1 - b2 + c[:, k], b1
         out[sl] = u[:, None] * b1 - b2 + c[:, 0]
-    return _scatter(out, flat, ok, np.shape(t))
+    return out
 
 
 def _direct(func: Func, flat: NDArray, ok: NDArray, shape: tuple[int, ...]) -> NDArray:
@@ -140,6 +157,8 @@ def _direct(func: Func, flat: NDArray, ok: NDArray, shape: tuple[int, ...]) -> N
 
 
 def _scatter(values: NDArray, flat: NDArray, ok: NDArray, shape: tuple[int, ...]) -> NDArray:
+    if values.shape[0] == flat.size:  # every instant finite: nothing to scatter
+        return values.reshape(shape + (values.shape[-1],))
     out = np.full((flat.size, values.shape[-1]), np.nan)
     out[ok] = values
     return out.reshape(shape + (values.shape[-1],))

@@ -13,10 +13,10 @@
   with the precession used.
 * Earth rotation: Greenwich apparent sidereal time from ``erfa.gst06`` with our
   long-term bias-precession-nutation matrix, i.e. the Earth rotation angle of
-  UT1 minus the equation of the origins; the CIO locator ``s`` is the IAU 2006
-  series (``erfa.s06``).  Far back that series parts from a kinematically
-  integrated CIO by ~1.5′ of rotation at 1750 BC and ~11′ at 3000 BC, i.e. under
-  one minute of UT, far inside the uncertainty of ΔT there.
+  UT1 minus the equation of the origins; the CIO locator ``s`` is integrated
+  from its definition for the long-term pole (:mod:`lightpath.sky.cio`).  The
+  IAU 2006 series for ``s`` (``erfa.s06``) would part from it by 11′ of
+  rotation at 3000 BC and 60° at 10,000 BC.
 * Polar motion is ignored (< 0.5″).
 
 All angles are degrees at the public boundary unless a name says ``_rad``.
@@ -52,6 +52,8 @@ from __future__ import annotations
 import erfa
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
+
+from lightpath.sky import cio
 
 __all__ = [
     "bias_precession_matrix",
@@ -218,21 +220,22 @@ def earth_rotation_angle_deg(jd_ut: ArrayLike) -> NDArray:
 def equation_of_origins_deg(jd_tt: ArrayLike, rnpb: ArrayLike) -> NDArray:
     """Equation of the origins (ERA − GAST), degrees, for a GCRS → true-of-date matrix ``rnpb``.
 
-    Capitaine & Wallace (2006) via ``erfa.eors`` with the IAU 2006 CIO locator ``s`` (``erfa.s06``).
+    Capitaine & Wallace (2006) via ``erfa.eors``, with the CIO locator ``s`` integrated for the
+    long-term pole (:mod:`lightpath.sky.cio`).
     """
-    jd = _jd(jd_tt)
-    x, y = rnpb[..., 2, 0], rnpb[..., 2, 1]
-    s = erfa.s06(jd, 0.0, x, y)
+    rnpb = np.asarray(rnpb, dtype=float)
+    s = cio.cio_locator_rad(_jd(jd_tt), rnpb[..., 2, 0], rnpb[..., 2, 1])
     return erfa.eors(rnpb, s) * _RAD_DEG
 
 
 def greenwich_apparent_sidereal_time_deg(jd_ut: ArrayLike, jd_tt: ArrayLike, rnpb: ArrayLike) -> NDArray:
     """Greenwich apparent sidereal time, degrees in [0, 360), with our long-term matrix ``rnpb``.
 
-    ``erfa.gst06(UT1, TT, rnpb)`` = ERA(UT1) − equation of the origins.
+    ERA(UT1) − equation of the origins (the form of ``erfa.gst06``), with the integrated CIO locator.
 
     >>> jd = 2451545.0
     >>> round(float(greenwich_apparent_sidereal_time_deg(jd, jd, bias_precession_nutation_matrix(jd))), 4)
     280.4571
     """
-    return erfa.gst06(_jd(jd_ut), 0.0, _jd(jd_tt), 0.0, rnpb) * _RAD_DEG
+    gst = earth_rotation_angle_deg(jd_ut) - equation_of_origins_deg(jd_tt, rnpb)
+    return np.mod(gst, 360.0)

@@ -47,6 +47,7 @@ from numpy.typing import ArrayLike, NDArray
 from lightpath.errors import InputError
 from lightpath.sky import jpl, orientation, vsop87
 from lightpath.sky.nodes import chebyshev_blocks
+from lightpath.threads import split_map
 
 __all__ = [
     "LONG_TERM_SPAN_JULIAN_YEARS",
@@ -147,8 +148,15 @@ def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
     """
     jd = np.asarray(jd_tt, dtype=float)
     slow = chebyshev_blocks(lambda t: _vsop_columns(t, "slow"), jd, _SLOW_BLOCK_DAYS, _SLOW_DEGREE)
-    fast = _vsop_columns(jd.reshape(-1), "fast").reshape(slow.shape)
-    L, B, R, dL, dB, dR = np.moveaxis(slow + fast, -1, 0)
+    # VSOP87 ecliptic and equinox of date → GCRS: Laskar (1986) equinox back to Vondrák et al. (2011), then ltecm^T
+    ecm = chebyshev_blocks(_ecliptic_matrix_columns, jd, _MATRIX_BLOCK_DAYS, _MATRIX_DEGREE)
+    flat = split_map(_apparent_gcrs, jd.reshape(-1), slow.reshape(-1, 6), ecm.reshape(-1, 9))
+    return flat.reshape(jd.shape + (3,))
+
+
+def _apparent_gcrs(jd: NDArray, slow: NDArray, ecm: NDArray) -> NDArray:
+    """(n, 3) apparent GCRS Sun (au) from VSOP87's slow band (n, 6) and frame matrices (n, 9) at 1-D ``jd``."""
+    L, B, R, dL, dB, dR = np.moveaxis(slow + _vsop_columns(jd, "fast"), -1, 0)
     cl, sl, cb, sb = np.cos(L), np.sin(L), np.cos(B), np.sin(B)
     # heliocentric Earth in the VSOP87 ecliptic of date, and its velocity (au, au/day)
     earth = np.stack([R * cb * cl, R * cb * sl, R * sb], axis=-1)
@@ -165,10 +173,7 @@ def vsop87_sun_gcrs_apparent_au(jd_tt: ArrayLike) -> NDArray:
     bm1 = np.sqrt(1.0 - np.sum(beta**2, axis=-1))
     direction = erfa.ab(-earth / R[..., None], beta, R, bm1)
     apparent_ecl = direction * R[..., None]
-    # VSOP87 ecliptic and equinox of date → GCRS: Laskar (1986) equinox back to Vondrák et al. (2011), then ltecm^T
-    ecm = chebyshev_blocks(_ecliptic_matrix_columns, jd, _MATRIX_BLOCK_DAYS, _MATRIX_DEGREE)
-    ecm = ecm.reshape(jd.shape + (3, 3))
-    return np.einsum("...ji,...j->...i", ecm, apparent_ecl)
+    return np.einsum("nji,nj->ni", ecm.reshape(-1, 3, 3), apparent_ecl)
 
 
 class SunAccuracyWarning(UserWarning):

@@ -9,7 +9,9 @@ Pipeline (the same for both sources, :mod:`lightpath.sky.sources`):
    :mod:`lightpath.sky.orientation`) → right ascension, declination, distance;
    ecliptic longitude of date with the true obliquity;
 3. Earth rotation: GAST = ERA(UT1) − equation of the origins (ERFA ``gst06``
-   form), UT1 = TT − ΔT (:mod:`lightpath.sky.deltat` or a given number);
+   form, with the CIO locator integrated for the long-term pole,
+   :mod:`lightpath.sky.cio`), UT1 = TT − ΔT (:mod:`lightpath.sky.deltat` or a
+   given number);
 4. topocentric: the observer's WGS84 position (ERFA ``gd2gc``) subtracted
    (diurnal parallax, up to 8.8″) and diurnal aberration (≤ 0.32″) applied;
    azimuth/altitude in the East-North-Up frame of the ellipsoid normal;
@@ -19,12 +21,13 @@ Pipeline (the same for both sources, :mod:`lightpath.sky.sources`):
 
 Speed: steps 1–2 (the costly part) are evaluated at 0.5-day nodes and
 interpolated (cubic Lagrange) when the instants are dense enough to save work,
-or on 32-day Chebyshev blocks of degree 20 for sets of about one instant a day;
+or on 32-day Chebyshev blocks of degree 18 for sets of about one instant a day;
 inside them, the slowly changing pieces (VSOP87's terms with periods over 120
-days, precession, obliquity, nutation and the CIO-locator series) are sampled
-on Chebyshev blocks (:mod:`lightpath.sky.nodes`) when that saves work.  Each
+days, precession, obliquity, the CIO locator and nutation) are sampled on
+Chebyshev blocks (:mod:`lightpath.sky.nodes`) when that saves work.  Each
 shortcut is compared with direct evaluation in ``tests/test_sun_sources.py``
-and ``tests/test_sun_vsop87.py``: < 0.001″.
+and ``tests/test_sun_vsop87.py``: < 0.001″.  Long arrays run on all cores
+(:mod:`lightpath.threads`), bit-for-bit as on one.
 
 VSOP87D before 3000 BC (outside the span checked against JPL DE406) raises a
 :class:`~lightpath.sky.sources.SunAccuracyWarning`.
@@ -52,18 +55,20 @@ Astronomical Almanac*, 3rd ed., ch. 7 (diurnal aberration and parallax).
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import erfa
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from lightpath.sky import orientation
+from lightpath.sky import cio, orientation
 from lightpath.sky.nodes import chebyshev_blocks, lagrange_on_grid
 from lightpath.sky.observer import Observer
 from lightpath.sky.refraction import apparent_altitude
 from lightpath.sky.sources import SunSource, choose_source, warn_if_unverified
 from lightpath.sky.vectors import azalt_from_enu, enu_from_azalt
+from lightpath.threads import split_map
 
 __all__ = [
     "GeocentricSun",
@@ -87,7 +92,7 @@ _SLOW_DEGREE = 6
 _NUTATION_BLOCK_DAYS = 32.0
 _NUTATION_DEGREE = 20
 _CORE_BLOCK_DAYS = 32.0
-_CORE_DEGREE = 20
+_CORE_DEGREE = 18
 _R2D = 180.0 / np.pi
 
 
@@ -142,34 +147,31 @@ class SunPosition:
 
 
 def _slow_orientation(jd: NDArray) -> NDArray:
-    """(n, 10): bias-precession matrix (9) and mean obliquity (rad)."""
+    """(n, 11): bias-precession matrix (9), mean obliquity and s + XY/2 (radians)."""
     pb = orientation.bias_precession_matrix(jd).reshape(-1, 9)  # Vondrák et al. (2011)
     eps_mean = orientation.mean_obliquity_deg(jd) / _R2D  # angle between the long-term poles
-    return np.column_stack([pb, eps_mean])
+    return np.column_stack([pb, eps_mean, cio.s_plus_half_xy_rad(jd)])  # CIO locator: integrated, long-term
 
 
 def _nutation_columns(jd: NDArray) -> NDArray:
-    """(n, 3): Δψ, Δε (IAU 2000B) and the series part of the CIO locator s (radians)."""
-    dpsi, deps = erfa.nut00b(jd, 0.0)
-    # IAU 2006 CIO locator: s = series(t) − X·Y/2 (Capitaine & Wallace 2006); s06 with X = Y = 0 is the series.
-    # Far from J2000 its t²…t⁵ terms scale up semi-annual and fortnightly terms, so it sits with nutation.
-    return np.column_stack([dpsi, deps, erfa.s06(jd, 0.0, 0.0, 0.0)])
+    """(n, 2): Δψ, Δε of IAU 2000B (radians)."""
+    return split_map(lambda t: np.column_stack(erfa.nut00b(t, 0.0)), jd)
 
 
 def _core(src: SunSource, jd: NDArray) -> NDArray:
     """(n, 5): true-of-date apparent vector (au), equation of the origins (rad), true obliquity (rad)."""
     gcrs = src.gcrs_apparent_au(jd)
-    # precession, obliquity and the s series change over centuries: 512-day Chebyshev blocks of degree 6
+    # precession, obliquity and the CIO locator change over centuries: 512-day Chebyshev blocks of degree 6
     slow = chebyshev_blocks(_slow_orientation, jd, _SLOW_BLOCK_DAYS, _SLOW_DEGREE)
     pb = slow[:, :9].reshape(-1, 3, 3)
-    eps_mean = slow[:, 9]
+    eps_mean, s_plus = slow[:, 9], slow[:, 10]
     # IAU 2000B (McCarthy & Luzum 2003): 32-day Chebyshev blocks of degree 20 when that saves work
     # (its fastest sizeable term, 9.13 days and 0.03″, is held to 0.0002″)
     nut = chebyshev_blocks(_nutation_columns, jd, _NUTATION_BLOCK_DAYS, _NUTATION_DEGREE)
-    dpsi, deps, s_series = nut[:, 0], nut[:, 1], nut[:, 2]
+    dpsi, deps = nut[:, 0], nut[:, 1]
     rnpb = np.matmul(erfa.numat(eps_mean, dpsi, deps), pb)
     tod = np.einsum("nij,nj->ni", rnpb, gcrs)
-    s = s_series - rnpb[:, 2, 0] * rnpb[:, 2, 1] / 2.0
+    s = s_plus - rnpb[:, 2, 0] * rnpb[:, 2, 1] / 2.0
     eo = erfa.eors(rnpb, s)
     return np.column_stack([tod, eo, eps_mean + deps])
 
@@ -178,7 +180,7 @@ def _core_at(src: SunSource, jd_tt: NDArray) -> NDArray:
     """The core at every instant: from 0.5-day nodes or 32-day blocks when that saves work."""
 
     def blocked(t: NDArray) -> NDArray:
-        # moderately dense sets (≥ 0.66 instants per day): the whole core on 32-day Chebyshev blocks
+        # moderately dense sets (≥ 0.6 instants per day): the whole core on 32-day Chebyshev blocks
         return chebyshev_blocks(lambda u: _core(src, u), t, _CORE_BLOCK_DAYS, _CORE_DEGREE)
 
     # dense sets (≥ 2 instants per day): cubic Lagrange from 0.5-day nodes
@@ -231,32 +233,9 @@ def _delta_t(jd: NDArray, delta_t_s: ArrayLike | None) -> tuple[NDArray, NDArray
     return dt, np.zeros_like(dt)
 
 
-def sun_position(
-    jd_tt: ArrayLike,
-    observer: Observer,
-    *,
-    source: str = "auto",
-    delta_t_s: ArrayLike | None = None,
-    ephemeris_path: str | None = None,
-) -> SunPosition:
-    """Topocentric apparent azimuth and altitude of the Sun (and its geocentric place) at TT instants.
-
-    Parameters
-    ----------
-    jd_tt : Julian dates of TT, any shape (nan propagates).
-    observer : site and air (:class:`~lightpath.sky.observer.Observer`).
-    source : ``"auto"``, ``"jpl"``, ``"vsop87"`` or a path to a ``.bsp`` kernel (see ``choose_source``).
-    delta_t_s : ΔT = TT − UT1 in seconds (number or array) overriding the model; None uses
-        :func:`lightpath.sky.deltat.delta_t_s`.
-    ephemeris_path : a user JPL kernel instead of DE421.
-    """
-    jd = np.asarray(jd_tt, dtype=float)
-    src = choose_source(jd, source, ephemeris_path)
-    warn_if_unverified(src, jd)
-    cols = _core_at(src, jd)
+def _topocentric(cols: NDArray, jd_ut: NDArray, observer: Observer) -> NDArray:
+    """(n, 11) topocentric columns from the core (n, 5) at UT1 instants (n,); see :func:`sun_position`."""
     ra, dec, dist, lon_ecl, _ = _geocentric_angles(cols)
-    dt_s, dt_sigma = _delta_t(jd, delta_t_s)
-    jd_ut = jd - dt_s / _DAY_S
     with np.errstate(invalid="ignore"):  # nan instants stay nan quietly
         era = erfa.era00(jd_ut, 0.0)  # IERS Conventions (2010) eq. 5.15
     gast = era - cols[..., 3]  # GAST = ERA − EO (ERFA gst06)
@@ -289,6 +268,39 @@ def sun_position(
     lat_h = (12.0 + ha / 15.0) % 24.0
     lmt_h = ((jd_ut + 0.5) % 1.0) * 24.0 + observer.longitude_deg / 15.0
     eot_min = ((lat_h - lmt_h + 12.0) % 24.0 - 12.0) * 60.0
+    columns = (az, alt_app, alt_geo, ra * _R2D, dec * _R2D, ha, lon_ecl * _R2D, dist, r_topo, eot_min, lat_h)
+    return np.stack(columns, axis=-1)
+
+
+def sun_position(
+    jd_tt: ArrayLike,
+    observer: Observer,
+    *,
+    source: str = "auto",
+    delta_t_s: ArrayLike | None = None,
+    ephemeris_path: str | None = None,
+) -> SunPosition:
+    """Topocentric apparent azimuth and altitude of the Sun (and its geocentric place) at TT instants.
+
+    Parameters
+    ----------
+    jd_tt : Julian dates of TT, any shape (nan propagates).
+    observer : site and air (:class:`~lightpath.sky.observer.Observer`).
+    source : ``"auto"``, ``"jpl"``, ``"vsop87"`` or a path to a ``.bsp`` kernel (see ``choose_source``).
+    delta_t_s : ΔT = TT − UT1 in seconds (number or array) overriding the model; None uses
+        :func:`lightpath.sky.deltat.delta_t_s`.
+    ephemeris_path : a user JPL kernel instead of DE421.
+    """
+    jd = np.asarray(jd_tt, dtype=float)
+    src = choose_source(jd, source, ephemeris_path)
+    warn_if_unverified(src, jd)
+    cols = _core_at(src, jd)
+    dt_s, dt_sigma = _delta_t(jd, delta_t_s)
+    jd_ut = jd - dt_s / _DAY_S
+    out = split_map(functools.partial(_topocentric, observer=observer), cols.reshape(-1, 5), jd_ut.reshape(-1))
+    az, alt_app, alt_geo, ra, dec, ha, lon_ecl, dist, r_topo, eot_min, lat_h = (
+        np.ascontiguousarray(c).reshape(jd.shape) for c in np.moveaxis(out, -1, 0)
+    )
     return SunPosition(
         jd_tt=jd,
         jd_ut=jd_ut,
@@ -297,10 +309,10 @@ def sun_position(
         azimuth_deg=az,
         altitude_deg=alt_app,
         altitude_geometric_deg=alt_geo,
-        right_ascension_deg=ra * _R2D,
-        declination_deg=dec * _R2D,
+        right_ascension_deg=ra,
+        declination_deg=dec,
         hour_angle_deg=ha,
-        ecliptic_longitude_deg=lon_ecl * _R2D,
+        ecliptic_longitude_deg=lon_ecl,
         distance_au=dist,
         semidiameter_deg=SUN_SEMIDIAMETER_1AU_ARCSEC / 3600.0 / r_topo,
         equation_of_time_min=eot_min,

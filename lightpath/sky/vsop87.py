@@ -43,6 +43,8 @@ from importlib import resources
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from lightpath.threads import split_map
+
 __all__ = [
     "BANDS",
     "DEFAULT_TOLERANCE_RAD",
@@ -189,7 +191,9 @@ def earth_heliocentric_lbr(
     tau = np.asarray(_tau(jd_tt))
     flat = tau.reshape(-1)
     tol = float(tolerance_rad)
-    return tuple(_series(flat, c, tol, band).reshape(tau.shape) for c in "LBR")  # type: ignore[return-value]
+    return tuple(  # type: ignore[return-value]
+        split_map(functools.partial(_series, coord=c, tolerance=tol, band=band), flat).reshape(tau.shape) for c in "LBR"
+    )  # type: ignore[return-value]
 
 
 def earth_heliocentric_lbr_rates(
@@ -206,5 +210,8 @@ def earth_heliocentric_lbr_rates(
     flat = tau.reshape(-1)
     tol = float(tolerance_rad)
     return tuple(  # type: ignore[return-value]
-        (_series_rate(flat, c, tol, band) / JULIAN_MILLENNIUM_DAYS).reshape(tau.shape) for c in "LBR"
+        (
+            split_map(functools.partial(_series_rate, coord=c, tolerance=tol, band=band), flat) / JULIAN_MILLENNIUM_DAYS
+        ).reshape(tau.shape)
+        for c in "LBR"
     )

@@ -75,7 +75,12 @@ def chunk_ranges(n_tasks: int, n_chunks: int) -> list[tuple[int, int]]:
 #: Thread counts of the numerical libraries in pool workers: one each, as dask's workers have by default.
 #: Two workers on two cores that each start a multi-threaded BLAS fight over the cores (measured: the
 #: engine's look-up took twice the CPU time for the same wall time with OpenBLAS's default threads).
-WORKER_THREAD_ENV = {"OMP_NUM_THREADS": "1", "OPENBLAS_NUM_THREADS": "1", "MKL_NUM_THREADS": "1"}
+WORKER_THREAD_ENV = {
+    "OMP_NUM_THREADS": "1",
+    "OPENBLAS_NUM_THREADS": "1",
+    "MKL_NUM_THREADS": "1",
+    "LIGHTPATH_THREADS": "1",  # lightpath.threads
+}
 
 
 def _init_worker(func_pickle: bytes) -> None:
