@@ -32,14 +32,18 @@ intersection. *J. Graphics Tools* 2(1), 21-28 (the numpy fallback, in float64).
 
 from __future__ import annotations
 
+import functools
 import warnings
 from collections.abc import Callable
+from typing import TYPE_CHECKING
 
 import numpy as np
-import trimesh
 from numpy.typing import ArrayLike, NDArray
 
-__all__ = ["BACKEND", "RayCaster", "escapes", "origin_offset_m", "ray_backend"]
+if TYPE_CHECKING:  # trimesh is needed only to build windows, not to read them (keeps workers light)
+    import trimesh
+
+__all__ = ["RayCaster", "escapes", "origin_offset_m", "ray_backend"]
 
 #: Rays per call to the intersector: bounds memory (~100 bytes per ray) on big batches.
 CHUNK_RAYS = 1_000_000
@@ -49,8 +53,9 @@ OFFSET_RELATIVE = 1e-5
 OFFSET_FLOOR_M = 1e-3
 
 
+@functools.cache
 def ray_backend() -> str:
-    """``"embree"`` when embreex imports, else ``"numpy"``.
+    """``"embree"`` when embreex imports, else ``"numpy"`` (found once, on first use).
 
     >>> ray_backend() in ("embree", "numpy")
     True
@@ -63,7 +68,12 @@ def ray_backend() -> str:
     return "embree"
 
 
-BACKEND = ray_backend()
+
+
+def __getattr__(name: str) -> str:
+    if name == "BACKEND":  # the backend in use, looked up lazily so that importing this module stays cheap
+        return ray_backend()
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 
 def origin_offset_m(mesh: trimesh.Trimesh) -> float:
@@ -92,7 +102,7 @@ class RayCaster:
         if backend not in ("auto", "embree", "numpy"):
             raise ValueError(f"ray backend {backend!r} is not one of auto, embree, numpy")
         if backend == "auto":
-            backend = BACKEND
+            backend = ray_backend()
             if backend == "numpy":
                 warnings.warn(
                     "embreex is not installed: using the numpy ray intersector, which is thousands of times slower",

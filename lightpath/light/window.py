@@ -55,9 +55,9 @@ import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import numpy as np
-import trimesh
 from numpy.typing import ArrayLike, NDArray
 from scipy.ndimage import maximum_filter
 
@@ -65,6 +65,9 @@ from lightpath.errors import InputError
 from lightpath.files import write_atomic
 from lightpath.light.grid import SkyGrid, hadec_from_enu
 from lightpath.light.rays import RayCaster, origin_offset_m
+
+if TYPE_CHECKING:  # trimesh is needed only to build windows, not to read them (keeps workers light)
+    import trimesh
 
 __all__ = ["ALTITUDE_FLOOR_DEG", "SkyWindow", "compute_window", "load_window", "save_window", "window_key"]
 

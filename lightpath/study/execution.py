@@ -99,6 +99,9 @@ def _run_chunk_in_worker(tasks: Sequence[Any]) -> list[Any]:
 
 
 def _run_chunk_with(func: Callable[[Any], Any], tasks: Sequence[Any]) -> list[Any]:
+    from lightpath.threads import set_thread_count
+
+    set_thread_count(1)  # a dask worker runs one chunk per thread: no threads inside the chunk as well
     return [func(task) for task in tasks]
 
 
