@@ -306,3 +306,14 @@ def test_polygon_opening_and_bad_polygons(folder, room):
     for value, word in bad:
         with pytest.raises(InputError, match=word):
             load_scene(write(folder, BASE.replace('groups = ["window"]', value)))
+
+
+def test_position_and_refraction_tolerances_reach_the_framing_test(folder):
+    from lightpath.study.uncertainty import tolerances_from_table
+
+    text = BASE + "\n[tolerances]\nopening_position_m = 0.05\ntarget_position_m = 0.02\nrefraction_deg = 0.0\n"
+    scene = load_scene(write(folder, text))
+    tol = tolerances_from_table(scene.tolerances)
+    assert (tol.opening_position_m, tol.target_position_m, tol.refraction_deg) == (0.05, 0.02, 0.0)
+    with pytest.raises(InputError, match="opening_position_m"):
+        load_scene(write(folder, BASE + "\n[tolerances]\nopening_position_m = -1\n"))

@@ -35,10 +35,12 @@ _SELECT = ("groups", "objects", "materials", "file", "box_min_m", "box_max_m", "
 TOLERANCE_KEYS = {
     "opening_azimuth_deg": "azimuth of the opening's axis (turn of the structure about the vertical), degrees",
     "opening_tilt_deg": "tilt of the opening's axis (turn of the structure about a horizontal axis), degrees",
-    "target_position_m": "position of the target relative to the opening, metres",
+    "opening_position_m": "position of the opening relative to the target, metres (per axis)",
+    "target_position_m": "position of the target relative to the opening, metres (per axis)",
     "horizon_altitude_deg": "altitude of the horizon profile, degrees",
     "temperature_c": "air temperature, degrees Celsius",
     "pressure_mbar": "air pressure, mbar",
+    "refraction_deg": "anomalous refraction at the horizon, degrees (default 0.18, Sampson et al. 2003)",
     "epoch_years": "the building's date, years",
 }
 
