@@ -23,18 +23,10 @@ import json
 import os
 import resource
 import time
+import warnings
 
 #: The epoch each demo site was built for (see lightpath/demo_models/*/README.md).
 EPOCHS = {"passage": -3199, "shrine": -1499, "window": 2026}
-
-
-def _prepare_dask_worker() -> None:
-    import warnings
-
-    from lightpath.sky.sources import SunAccuracyWarning
-
-    # the framing test states the unverified epoch once in its notes; workers need not print it per draw
-    warnings.filterwarnings("ignore", category=SunAccuracyWarning)
 
 
 def main() -> None:
@@ -50,10 +42,13 @@ def main() -> None:
 
     from lightpath.commands._common import to_jsonable
     from lightpath.site.scene import demo_scene_path, load_scene
+    from lightpath.sky.sources import SunAccuracyWarning
     from lightpath.study.framing import framing_test
     from lightpath.study.light_days import default_span_days, light_days_for_scene
     from lightpath.study.uncertainty import tolerances_from_table
 
+    # the framing test states an unverified epoch once in its notes; the bench need not print it per run
+    warnings.filterwarnings("ignore", category=SunAccuracyWarning)
     scene = load_scene(demo_scene_path(args.site))
     t0 = time.perf_counter()
     light, axis, distance = light_days_for_scene(scene, samples=args.samples, span_days=default_span_days(8))
@@ -105,7 +100,7 @@ def main() -> None:
             LocalCluster(**options, dashboard_address=None) as cluster,
             Client(cluster) as client,
         ):
-            client.run(_prepare_dask_worker)  # imports happen before the clock
+            client.run(lambda: __import__("lightpath.study.light_days"))  # imports happen before the clock
             dask_wall, _, out = timed(f"dask LocalCluster, {args.workers} workers", client=client)
         assert out == ref, "the dask result differs from the serial one"
         rows.append(("dask LocalCluster", dask_wall))
