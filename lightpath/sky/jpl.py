@@ -35,6 +35,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from lightpath.errors import InputError
+from lightpath.sky.deltat import _timescale
 
 __all__ = ["DE421_PATH", "kernel_label", "kernel_span_jd_tt", "load_kernel", "sun_gcrs_apparent_au"]
 
@@ -52,15 +53,6 @@ DE421_PATH = os.path.join(_skyfield_data_dir(), "de421.bsp")
 
 # Light from the Sun takes ~500 s; keep instants this far (days) inside the kernel's coverage.
 _SPAN_MARGIN_DAYS = 0.02
-
-
-@functools.cache
-def _timescale():
-    from skyfield.api import Loader
-
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore")
-        return Loader(_skyfield_data_dir()).timescale(builtin=True)
 
 
 @functools.cache
