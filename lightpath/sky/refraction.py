@@ -103,6 +103,24 @@ def _cot_model(
     return r_deg, dr
 
 
+# (k, a, b, floor_deg, zenith_arcmin) of each formula for _cot_model.
+_COEFFS = {
+    "bennett1982": (1.0, _B_A, _B_B, _B_FLOOR_DEG, _B_ZENITH_ARCMIN),  # Bennett (1982); Meeus (1998) ch. 16
+    "saemundsson1986": (_S_K, _S_A, _S_B, _S_FLOOR_DEG, _S_ZENITH_ARCMIN),  # Sæmundsson (1986); Meeus (1998) ch. 16
+}
+
+
+def _model(name: str, h_deg: NDArray) -> tuple[NDArray, NDArray]:
+    """R at standard air (degrees) and dR/dh of the formula ``name`` at its own kind of altitude ``h_deg``."""
+    return _cot_model(h_deg, *_COEFFS[name])
+
+
+def _scaled(name: str, altitude_deg: ArrayLike, pressure_mbar: ArrayLike, temperature_c: ArrayLike) -> NDArray:
+    """R (degrees) of the formula ``name`` in the given air: the body of both public ``refraction_*`` functions."""
+    r, _ = _model(name, np.asarray(altitude_deg, dtype=float))
+    return r * _air_factor(pressure_mbar, temperature_c)
+
+
 def refraction_bennett1982(
     apparent_altitude_deg: ArrayLike,
     pressure_mbar: ArrayLike = STANDARD_PRESSURE_MBAR,
@@ -131,9 +149,7 @@ def refraction_bennett1982(
     Bennett, G. G. (1982). *Journal of Navigation* 35, 255–259; Meeus (1998) ch. 16
     for the pressure and temperature factor.
     """
-    h = np.asarray(apparent_altitude_deg, dtype=float)
-    r, _ = _cot_model(h, 1.0, _B_A, _B_B, _B_FLOOR_DEG, _B_ZENITH_ARCMIN)  # Bennett (1982); Meeus (1998) ch. 16
-    return r * _air_factor(pressure_mbar, temperature_c)
+    return _scaled("bennett1982", apparent_altitude_deg, pressure_mbar, temperature_c)
 
 
 def refraction_saemundsson1986(
@@ -161,9 +177,7 @@ def refraction_saemundsson1986(
     ----------
     Sæmundsson, Þ. (1986). *Sky and Telescope* 72, 70; Meeus (1998) ch. 16.
     """
-    h = np.asarray(geometric_altitude_deg, dtype=float)
-    r, _ = _cot_model(h, _S_K, _S_A, _S_B, _S_FLOOR_DEG, _S_ZENITH_ARCMIN)  # Sæmundsson (1986); Meeus (1998) ch. 16
-    return r * _air_factor(pressure_mbar, temperature_c)
+    return _scaled("saemundsson1986", geometric_altitude_deg, pressure_mbar, temperature_c)
 
 
 def _check_model(model: str | None) -> None:
@@ -172,6 +186,36 @@ def _check_model(model: str | None) -> None:
 
 
 _NEWTON_STEPS = 6  # quadratic convergence from a start within ~0.3°: far below 1e-9° after 6 steps
+
+
+def _convert(
+    altitude_deg: ArrayLike,
+    model: RefractionModel,
+    pressure_mbar: ArrayLike,
+    temperature_c: ArrayLike,
+    to_apparent: bool,
+) -> NDArray:
+    """Geometric → apparent (``to_apparent``) or apparent → geometric altitude, degrees, by ``model``.
+
+    The formula whose argument is the given altitude (Sæmundsson towards apparent, Bennett towards
+    geometric) applies directly; the other is inverted by Newton's method from the first one's answer.
+    """
+    _check_model(model)
+    h = np.asarray(altitude_deg, dtype=float)
+    if model is None:
+        return h.copy()
+    f = _air_factor(pressure_mbar, temperature_c)
+    s = 1.0 if to_apparent else -1.0  # apparent = geometric + f·R
+    direct = "saemundsson1986" if to_apparent else "bennett1982"
+    if model == direct:
+        r, _ = _model(direct, h)
+        return h + s * f * r
+    # solve x - s·f·R(x) = h for x, the altitude the model takes as argument
+    x = h + s * f * _model(direct, h)[0]
+    for _ in range(_NEWTON_STEPS):
+        r, dr = _model(model, x)
+        x = x - (x - s * f * r - h) / (1.0 - s * f * dr)
+    return x
 
 
 def apparent_altitude(
@@ -190,20 +234,7 @@ def apparent_altitude(
     >>> apparent_altitude([10.0, np.nan], model=None)
     array([10., nan])
     """
-    _check_model(model)
-    h = np.asarray(geometric_altitude_deg, dtype=float)
-    if model is None:
-        return h.copy()
-    f = _air_factor(pressure_mbar, temperature_c)
-    if model == "saemundsson1986":
-        r, _ = _cot_model(h, _S_K, _S_A, _S_B, _S_FLOOR_DEG, _S_ZENITH_ARCMIN)
-        return h + f * r
-    # Bennett is a function of the apparent altitude: solve h0 - f·R(h0) = h for h0 by Newton.
-    h0 = h + f * _cot_model(h, _S_K, _S_A, _S_B, _S_FLOOR_DEG, _S_ZENITH_ARCMIN)[0]
-    for _ in range(_NEWTON_STEPS):
-        r, dr = _cot_model(h0, 1.0, _B_A, _B_B, _B_FLOOR_DEG, _B_ZENITH_ARCMIN)
-        h0 = h0 - (h0 - f * r - h) / (1.0 - f * dr)
-    return h0
+    return _convert(geometric_altitude_deg, model, pressure_mbar, temperature_c, to_apparent=True)
 
 
 def geometric_altitude(
@@ -221,17 +252,4 @@ def geometric_altitude(
     >>> round(float(geometric_altitude(0.0, "saemundsson1986")), 4)
     -0.5739
     """
-    _check_model(model)
-    h0 = np.asarray(apparent_altitude_deg, dtype=float)
-    if model is None:
-        return h0.copy()
-    f = _air_factor(pressure_mbar, temperature_c)
-    if model == "bennett1982":
-        r, _ = _cot_model(h0, 1.0, _B_A, _B_B, _B_FLOOR_DEG, _B_ZENITH_ARCMIN)
-        return h0 - f * r
-    # Sæmundsson is a function of the geometric altitude: solve h + f·R(h) = h0 for h by Newton.
-    h = h0 - f * _cot_model(h0, 1.0, _B_A, _B_B, _B_FLOOR_DEG, _B_ZENITH_ARCMIN)[0]
-    for _ in range(_NEWTON_STEPS):
-        r, dr = _cot_model(h, _S_K, _S_A, _S_B, _S_FLOOR_DEG, _S_ZENITH_ARCMIN)
-        h = h - (h + f * r - h0) / (1.0 + f * dr)
-    return h
+    return _convert(apparent_altitude_deg, model, pressure_mbar, temperature_c, to_apparent=False)
