@@ -103,31 +103,8 @@ def slit_shrine(
     >>> sorted(m.parts), round(float(m.target().area), 3)
     (['floor', 'rock', 'roof', 'slit', 'target'], 0.8)
     """
-    survey = dict(
-        azimuth_deg=azimuth_deg,
-        depth_m=depth_m,
-        width_m=width_m,
-        height_m=height_m,
-        rock_m=rock_m,
-        slit=vars(slit),
-        image=list(image),
-    )
-    model = _room(
-        "slit_shrine",
-        azimuth_deg,
-        depth_m,
-        width_m,
-        height_m,
-        rock_m,
-        rock_m,
-        slit,
-        "slit",
-        "rock",
-        None,
-        image,
-        survey,
-    )
-    return _shift_origin(model, rock_m)
+    size = (azimuth_deg, depth_m, width_m, height_m)
+    return _opening_room("slit_shrine", size, ("rock_m", rock_m), ("slit", slit), "rock", image=image)
 
 
 def window_room(
@@ -147,31 +124,52 @@ def window_room(
     >>> sorted(m.parts), round(float(m.target().area), 3)
     (['floor', 'roof', 'target', 'walls', 'window'], 0.48)
     """
-    survey = dict(
-        azimuth_deg=azimuth_deg,
-        depth_m=depth_m,
-        width_m=width_m,
-        height_m=height_m,
-        wall_m=wall_m,
-        window=vars(window),
-        niche=vars(niche),
-    )
+    size = (azimuth_deg, depth_m, width_m, height_m)
+    return _opening_room("window_room", size, ("wall_m", wall_m), ("window", window), "walls", niche=niche)
+
+
+def _opening_room(
+    kind: str,
+    size: tuple[float, float, float, float],
+    front: tuple[str, float],
+    opening: tuple[str, Slot],
+    wall_name: str,
+    *,
+    niche: Niche | None = None,
+    image: tuple[float, float, float, float] | None = None,
+) -> ChamberModel:
+    """The body of :func:`slit_shrine` and :func:`window_room`: the survey record, the room, the origin moved.
+
+    ``size`` = (azimuth_deg, depth_m, width_m, height_m), degrees and metres; ``front`` = (its keyword, its
+    thickness in metres) for the front wall; ``opening`` = (its part name, its :class:`Slot`); the target is
+    either the back face of ``niche`` or the back-wall patch ``image`` = (y0, y1, z0, z1), metres.
+    """
+    azimuth_deg, depth_m, width_m, height_m = size
+    front_key, front_m = front
+    opening_name, slot = opening
+    survey = dict(azimuth_deg=azimuth_deg, depth_m=depth_m, width_m=width_m, height_m=height_m)
+    survey[front_key] = front_m
+    survey[opening_name] = vars(slot)
+    if niche is None:
+        survey["image"] = list(image)
+    else:
+        survey["niche"] = vars(niche)
     model = _room(
-        "window_room",
+        kind,
         azimuth_deg,
         depth_m,
         width_m,
         height_m,
-        wall_m,
-        wall_m,
-        window,
-        "window",
-        "walls",
+        front_m,
+        front_m,
+        slot,
+        opening_name,
+        wall_name,
         niche,
-        None,
+        image,
         survey,
     )
-    return _shift_origin(model, wall_m)
+    return _shift_origin(model, front_m)
 
 
 def _shift_origin(model: ChamberModel, front_m: float) -> ChamberModel:
