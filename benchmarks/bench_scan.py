@@ -36,7 +36,7 @@ from lightpath.light.bruteforce import brute_force_fraction, brute_force_lit_are
 from lightpath.light.events import local_day_number  # noqa: E402
 from lightpath.light.scan import prepare_window, scan_window, sun_for  # noqa: E402
 from lightpath.light.sweep import find_light, sun_enu  # noqa: E402
-from lightpath.site.builders import Chamber, Slot, passage_chamber  # noqa: E402
+from lightpath.site.builders import demo_chamber  # noqa: E402
 from lightpath.site.scene import demo_scene_path, load_scene  # noqa: E402
 from lightpath.sky.calendar import julian_day  # noqa: E402
 
@@ -44,17 +44,7 @@ from lightpath.sky.calendar import julian_day  # noqa: E402
 def rough_chamber(target_faces: int = 200_000, roughness_m: float = 0.003, seed: int = 0):
     """The demo passage rebuilt, solids subdivided to ≥ ``target_faces`` and pushed in by ≤ ``roughness_m``."""
     demo = load_scene(demo_scene_path("passage"))
-    model = passage_chamber(
-        135.88,
-        floor_slope_deg=2.0,
-        length_m=16.0,
-        width_m=1.0,
-        height_m=1.6,
-        chamber=Chamber(depth_m=3.2, width_m=3.0, height_m=2.6, backstone=(-0.6, 0.6, 0.0, 1.2)),
-        slot=Slot(width_m=0.5, height_m=0.3),
-        wall_m=0.6,
-        lintel_m=0.35,
-    )
+    model = demo_chamber("passage", 135.88)  # the Fernmoor demo chamber, aimed as shipped
     rng = np.random.default_rng(seed)
     solid = [m for name, m in model.parts.items() if name not in model.opening_parts and name != model.target_part]
     mesh = trimesh.util.concatenate(solid)

@@ -17,7 +17,8 @@ of a Sun standing ``AIM_ABOVE_HORIZON_DEG`` above the horizon profile: apparent 
 (1982) refraction.  This is rough on purpose (no nutation, aberration or parallax: < 0.01° in δ) — the
 engine finds the real dates; the aim only has to put light within a few days of the division.
 
-To re-aim a site, change the numbers in SITES below and run the script again.
+To re-aim a site, change the numbers in SITES below and run the script again; the chambers' sizes are in
+``lightpath.site.builders.demo_chamber`` (shared with ``benchmarks/bench_scan.py``).
 """
 
 from __future__ import annotations
@@ -31,7 +32,7 @@ import numpy as np
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
-from lightpath.site.builders import Chamber, Niche, Slot, passage_chamber, slit_shrine, window_room  # noqa: E402
+from lightpath.site.builders import demo_chamber  # noqa: E402
 from lightpath.site.export import export_obj  # noqa: E402
 from lightpath.sky.horizon import HorizonProfile, write_horizon_csv  # noqa: E402
 
@@ -120,40 +121,6 @@ def aim(site: dict) -> dict:
         azimuth_deg=az,
         apparent_altitude_deg=apparent,
         flat_horizon_azimuth_deg=flat_rise,
-    )
-
-
-def build(name: str, azimuth_deg: float):
-    if name == "passage":
-        return passage_chamber(
-            azimuth_deg,
-            floor_slope_deg=2.0,
-            length_m=16.0,
-            width_m=1.0,
-            height_m=1.6,
-            chamber=Chamber(depth_m=3.2, width_m=3.0, height_m=2.6, backstone=(-0.6, 0.6, 0.0, 1.2)),
-            slot=Slot(width_m=0.5, height_m=0.3),
-            wall_m=0.6,
-            lintel_m=0.35,
-        )
-    if name == "shrine":
-        return slit_shrine(
-            azimuth_deg,
-            depth_m=4.5,
-            width_m=2.6,
-            height_m=2.4,
-            rock_m=2.0,
-            slit=Slot(width_m=0.05, height_m=0.5, sill_m=1.0),
-            image=(-0.45, 0.45, 0.4, 1.0),
-        )
-    return window_room(
-        azimuth_deg,
-        depth_m=6.0,
-        width_m=4.2,
-        height_m=3.2,
-        wall_m=1.2,
-        window=Slot(width_m=0.3, height_m=0.55, sill_m=1.75),
-        niche=Niche(width_m=0.6, height_m=0.8, depth_m=0.45, sill_m=0.9),
     )
 
 
@@ -261,7 +228,7 @@ def main(argv: list[str] | None = None) -> None:
         folder = OUT / name
         folder.mkdir(parents=True, exist_ok=True)
         a = aim(site)
-        model = build(name, round(a["azimuth_deg"], 2))
+        model = demo_chamber(name, round(a["azimuth_deg"], 2))
         mesh_name = f"{name}.obj"
         export_obj(model, folder / mesh_name, header=f"{site['title']} (invented demo site)")
         az = np.arange(0.0, 360.0, HORIZON_STEP_DEG)

@@ -8,7 +8,9 @@ target is a quad 1 mm in front of the surface it stands for, normal pointing int
 - :func:`passage_chamber`: a straight or bent passage (outward azimuth, floor slope, length, width, height)
   with a chamber at its end and a slot over the entrance lintel (the doorway closed by a stone);
 - :func:`slit_shrine`: a thick-walled rock-cut room with a narrow slit in its front wall;
-- :func:`window_room`: a room whose thick wall has a window and whose opposite wall has a niche.
+- :func:`window_room`: a room whose thick wall has a window and whose opposite wall has a niche;
+- :func:`demo_chamber`: the chamber of one of the shipped demo sites (``tools/make_demo_models.py`` and
+  ``benchmarks/bench_scan.py`` build them from here).
 
 >>> m = passage_chamber(azimuth_deg=135.0, floor_slope_deg=2.0, length_m=12.0, width_m=1.0, height_m=1.5)
 >>> sorted(m.parts)
@@ -31,7 +33,17 @@ from lightpath.site.solids import box, local_to_site, pitch_matrix, quad, yaw_ma
 #: The slot :func:`passage_chamber` builds when none is given: 0.6 m wide, 0.25 m high, under the roof.
 DEFAULT_SLOT = Slot()
 
-__all__ = ["Bend", "Chamber", "ChamberModel", "Niche", "Slot", "passage_chamber", "slit_shrine", "window_room"]
+__all__ = [
+    "Bend",
+    "Chamber",
+    "ChamberModel",
+    "Niche",
+    "Slot",
+    "demo_chamber",
+    "passage_chamber",
+    "slit_shrine",
+    "window_room",
+]
 
 
 @dataclass(frozen=True)
@@ -190,3 +202,60 @@ def passage_chamber(
     return ChamberModel(
         "passage_chamber", parts.build(to_site), tuple(openings), "target", azimuth_deg, to_site, survey
     )
+
+
+# The demo sites' chambers: builder and its keywords (sizes in metres), by site name.
+_DEMO_CHAMBERS = {
+    "passage": (
+        passage_chamber,
+        dict(
+            floor_slope_deg=2.0,
+            length_m=16.0,
+            width_m=1.0,
+            height_m=1.6,
+            chamber=Chamber(depth_m=3.2, width_m=3.0, height_m=2.6, backstone=(-0.6, 0.6, 0.0, 1.2)),
+            slot=Slot(width_m=0.5, height_m=0.3),
+            wall_m=0.6,
+            lintel_m=0.35,
+        ),
+    ),
+    "shrine": (
+        slit_shrine,
+        dict(
+            depth_m=4.5,
+            width_m=2.6,
+            height_m=2.4,
+            rock_m=2.0,
+            slit=Slot(width_m=0.05, height_m=0.5, sill_m=1.0),
+            image=(-0.45, 0.45, 0.4, 1.0),
+        ),
+    ),
+    "window": (
+        window_room,
+        dict(
+            depth_m=6.0,
+            width_m=4.2,
+            height_m=3.2,
+            wall_m=1.2,
+            window=Slot(width_m=0.3, height_m=0.55, sill_m=1.75),
+            niche=Niche(width_m=0.6, height_m=0.8, depth_m=0.45, sill_m=0.9),
+        ),
+    ),
+}
+
+
+def demo_chamber(site: str, azimuth_deg: float) -> ChamberModel:
+    """The chamber of the demo site ``site`` (``"passage"``, ``"shrine"`` or ``"window"``), its opening's
+    axis looking out to ``azimuth_deg`` (degrees from true north, clockwise); every size in metres.
+
+    The invented sites in ``lightpath/demo_models/`` are these models exported by ``tools/make_demo_models.py``
+    (which aims them); ``benchmarks/bench_scan.py`` roughens the passage.
+
+    >>> m = demo_chamber("passage", 135.88)
+    >>> m.kind, m.opening_parts, round(float(m.target().area), 2)
+    ('passage_chamber', ('slot',), 1.44)
+    """
+    if site not in _DEMO_CHAMBERS:
+        raise ValueError(f"demo site {site!r} is not one of {', '.join(_DEMO_CHAMBERS)}")
+    builder, keywords = _DEMO_CHAMBERS[site]
+    return builder(azimuth_deg, **keywords)
