@@ -42,7 +42,17 @@ from lightpath.sky.deltat import tt_from_ut, ut_date_uncertain
 from lightpath.sky.observer import Observer
 from lightpath.sky.seasons import YEAR_MAX, YEAR_MIN
 
-__all__ = ["MARGIN_DAYS", "parse_years", "prepare_window", "scan_scene", "scan_window", "scan_year", "sun_for"]
+__all__ = [
+    "MARGIN_DAYS",
+    "ScanOptions",
+    "parse_years",
+    "prepare_window",
+    "scan_scene",
+    "scan_window",
+    "scan_window_with",
+    "scan_year",
+    "sun_for",
+]
 
 #: Days swept beyond each end of a year, for whole runs of light days around New Year.
 MARGIN_DAYS = 40
@@ -228,6 +238,46 @@ def _minutes(hhmm: str) -> int:
     return int(h) * 60 + int(m) if h.isdigit() else 720
 
 
+@dataclasses.dataclass(frozen=True)
+class ScanOptions:
+    """How each year of a scan is swept and summed up: everything but the window, the site and the years.
+
+    The public scan functions take these as keywords (documented in :func:`scan_window` and
+    :func:`scan_year`), build one ``ScanOptions`` and pass it down; :func:`scan_window_with` takes it as is.
+
+    criterion : ``first-gleam``, ``half-disc`` or ``full-disc``.
+    scheme, parts : divisions of the year (:func:`lightpath.sky.divisions.divisions`).
+    source : Sun position source (``auto``, ``jpl``, ``vsop87``).
+    delta_t_s : fixed ΔT in seconds, or None for the model (with its σ).
+    calendar : ``auto``, ``julian`` or ``gregorian`` for the dates.
+    with_light_map : also compute the lit area by day × local apparent time.
+    rotation : 3×3 matrix rotating the whole structure about the target, or None
+        (:func:`lightpath.light.disc.disc_fraction`).
+    horizon_offset_deg : degrees added to the horizon profile's apparent altitudes.
+    limb_darkening_u : linear limb-darkening coefficient of the disc, or None for a uniform disc.
+    step_min : the sweep's fine sampling step, minutes (:func:`lightpath.light.sweep.find_light`).
+
+    >>> ScanOptions(parts=4).with_light_map
+    False
+    """
+
+    criterion: str = "first-gleam"
+    scheme: str = "longitude"
+    parts: int = 8
+    source: str = "auto"
+    delta_t_s: float | None = None
+    calendar: str = "auto"
+    with_light_map: bool = False
+    rotation: np.ndarray | None = None
+    horizon_offset_deg: float = 0.0
+    limb_darkening_u: float | None = None
+    step_min: float = 1.0
+
+    def check(self) -> None:
+        """:class:`InputError` for an unknown criterion or scheme or a number of parts out of range."""
+        _check_names(self.criterion, self.scheme, self.parts)
+
+
 def scan_year(
     window: SkyWindow,
     observer: Observer,
@@ -250,22 +300,16 @@ def scan_year(
     Warnings raised by the Sun model or the divisions (e.g. epochs beyond the checked span) are
     recorded once each in the year's ``notes`` instead of being printed.
     """
-    options = dict(
-        criterion=criterion,
-        scheme=scheme,
-        parts=parts,
-        source=source,
-        delta_t_s=delta_t_s,
-        calendar=calendar,
-        with_light_map=with_light_map,
-        rotation=rotation,
-        horizon_offset_deg=horizon_offset_deg,
-        limb_darkening_u=limb_darkening_u,
-        step_min=step_min,
-    )
+    options = ScanOptions(criterion, scheme, parts, source, delta_t_s, calendar, with_light_map, rotation,
+                          horizon_offset_deg, limb_darkening_u, step_min)  # fmt: skip
+    return _scan_year(window, observer, year, options)
+
+
+def _scan_year(window: SkyWindow, observer: Observer, year: int, options: ScanOptions) -> YearScan:
+    """:func:`_sweep_year` with its warnings recorded once each in the year's ``notes``."""
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        result = _scan_year(window, observer, year, **options)
+        result = _sweep_year(window, observer, year, options)
     notes = list(result.notes)
     for w in caught:
         text = f"{w.category.__name__}: {w.message}"
@@ -274,37 +318,21 @@ def scan_year(
     return dataclasses.replace(result, notes=notes)
 
 
-def _scan_year(
-    window,
-    observer,
-    year,
-    *,
-    criterion,
-    scheme,
-    parts,
-    source,
-    delta_t_s,
-    calendar,
-    with_light_map,
-    rotation,
-    horizon_offset_deg,
-    limb_darkening_u,
-    step_min,
-) -> YearScan:
+def _sweep_year(window: SkyWindow, observer: Observer, year: int, o: ScanOptions) -> YearScan:
     from lightpath.sky.divisions import divisions
 
-    sun = sun_for(observer, source, delta_t_s)
-    first, last, t0, t1 = _year_bounds(year, observer, calendar, delta_t_s)
+    sun = sun_for(observer, o.source, o.delta_t_s)
+    first, last, t0, t1 = _year_bounds(year, observer, o.calendar, o.delta_t_s)
     intervals = find_light(
         window,
         sun,
         t0,
         t1,
-        criterion,
-        step_min=step_min,
-        rotation=rotation,
-        horizon_offset_deg=horizon_offset_deg,
-        limb_darkening_u=limb_darkening_u,
+        o.criterion,
+        step_min=o.step_min,
+        rotation=o.rotation,
+        horizon_offset_deg=o.horizon_offset_deg,
+        limb_darkening_u=o.limb_darkening_u,
     )
     # year Y's divisions run from the December solstice of Y − 1: Y − 1 … Y + 1 cover the sweep and margins;
     # horizon=None: the divisions' instants do not depend on it, only their sunrise azimuths (unused here)
@@ -312,7 +340,7 @@ def _scan_year(
     divs = [
         d
         for y in div_years
-        for d in divisions(y, scheme, parts, observer=observer, horizon=None, source=source, calendar=calendar)
+        for d in divisions(y, o.scheme, o.parts, observer=observer, horizon=None, source=o.source, calendar=o.calendar)
     ]
     div_pos = sun(np.array([d.jd_tt for d in divs]))
     div_days = local_day_number(div_pos.jd_ut, observer.longitude_deg, div_pos.local_apparent_time_h)
@@ -326,10 +354,10 @@ def _scan_year(
         source_name = div_pos.source
     in_year = [x for x, d in zip(intervals, days, strict=True) if first <= d <= last]
     # with a fixed ΔT (σ = 0) the UT date is as certain as the ΔT given
-    uncertain = ut_date_uncertain if delta_t_s is None else None
-    events = light_events(in_year, sun, observer, divs, window.total_area_m2, calendar, uncertain)
+    uncertain = ut_date_uncertain if o.delta_t_s is None else None
+    events = light_events(in_year, sun, observer, divs, window.total_area_m2, o.calendar, uncertain)
     report = [i for i, d in enumerate(div_days) if first <= d <= last]
-    summary = division_runs(days, divs, div_days, report, calendar)
+    summary = division_runs(days, divs, div_days, report, o.calendar)
     span = (first - MARGIN_DAYS + 1, last + MARGIN_DAYS - 1)
     for i, d in zip(report, summary, strict=True):
         if d.days and (div_days[i] + d.first_offset_days <= span[0] or div_days[i] + d.last_offset_days >= span[1]):
@@ -338,15 +366,15 @@ def _scan_year(
                 "year); it may be longer"
             )
     light_map = None
-    if with_light_map:
+    if o.with_light_map:
         lookup = {
-            "rotation": rotation,
-            "horizon_offset_deg": horizon_offset_deg,
-            "limb_darkening_u": limb_darkening_u,
-            "delta_t_s": delta_t_s,
+            "rotation": o.rotation,
+            "horizon_offset_deg": o.horizon_offset_deg,
+            "limb_darkening_u": o.limb_darkening_u,
+            "delta_t_s": o.delta_t_s,
         }
-        light_map = _light_map(window, sun, observer, first, last, events, criterion, lookup)
-    cal = str(calendar_for(float(first), calendar))
+        light_map = _light_map(window, sun, observer, first, last, events, o.criterion, lookup)
+    cal = str(calendar_for(float(first), o.calendar))
     return YearScan(int(year), cal, source_name, events, summary, light_map, notes)
 
 
@@ -374,48 +402,52 @@ def scan_window(
     window : from :func:`prepare_window` (its ``horizon`` is used).
     observer : the site and its air (refraction).
     years : whole years, −10000…2999.
-    criterion : ``first-gleam``, ``half-disc`` or ``full-disc``.
-    scheme, parts : divisions of the year (:func:`lightpath.sky.divisions.divisions`).
-    source : Sun position source (``auto``, ``jpl``, ``vsop87``).
-    delta_t_s : fixed ΔT in seconds, or None for the model (with its σ).
-    calendar : ``auto``, ``julian`` or ``gregorian`` for the dates.
-    with_light_map : also compute the lit area by day × local apparent time.
+    criterion, scheme, parts, source, delta_t_s, calendar, with_light_map : see :class:`ScanOptions`
+        (criterion ``first-gleam``, ``half-disc`` or ``full-disc``; ΔT in seconds).
     progress : ``progress(done, total)`` after each year.
-    options : ``rotation``, ``horizon_offset_deg``, ``limb_darkening_u``, ``step_min`` (see :func:`scan_year`).
+    scene_label, seed : recorded in the result (the seed that sampled the window).
+    options : ``rotation``, ``horizon_offset_deg``, ``limb_darkening_u``, ``step_min`` (see :class:`ScanOptions`).
+    """
+    settings = ScanOptions(criterion, scheme, parts, source, delta_t_s, calendar, with_light_map, **options)
+    return scan_window_with(window, observer, years, settings, progress=progress, scene_label=scene_label, seed=seed)
+
+
+def scan_window_with(
+    window: SkyWindow,
+    observer: Observer,
+    years: Sequence[int],
+    options: ScanOptions,
+    *,
+    progress: Callable[[int, int], None] | None = None,
+    scene_label: str = "",
+    seed: int = 0,
+    scene_notes: Sequence[str] = (),
+) -> ScanResult:
+    """:func:`scan_window` with its settings in one :class:`ScanOptions`.
+
+    ``scene_notes`` (e.g. the scene file's warnings) are added to the result's notes, each once.
     """
     years = check_years(list(years))
-    _check_names(criterion, scheme, parts)
+    options.check()
     out = []
     for n, year in enumerate(years, start=1):
-        out.append(
-            scan_year(
-                window,
-                observer,
-                year,
-                criterion=criterion,
-                scheme=scheme,
-                parts=parts,
-                source=source,
-                delta_t_s=delta_t_s,
-                calendar=calendar,
-                with_light_map=with_light_map,
-                **options,
-            )
-        )
+        out.append(_scan_year(window, observer, year, options))
         if progress is not None:
             progress(n, len(years))
     settings = ScanSettings(
-        criterion,
-        scheme,
-        int(parts),
+        options.criterion,
+        options.scheme,
+        int(options.parts),
         window.samples,
         int(seed),
         window.resolution_deg,
         observer.refraction,
-        source,
-        delta_t_s,
+        options.source,
+        options.delta_t_s,
     )
-    return ScanResult(scene_label, settings, window.total_area_m2, out, list(window.notes))
+    notes = list(window.notes)
+    notes += [w for w in scene_notes if w not in notes]
+    return ScanResult(scene_label, settings, window.total_area_m2, out, notes)
 
 
 def scan_scene(
@@ -439,8 +471,9 @@ def scan_scene(
 
     ``progress(done, total)`` counts the window as one step and each year as one.
     """
+    options = ScanOptions(criterion, scheme, parts, source, delta_t_s, calendar, with_light_map)
     years = check_years(list(years))
-    _check_names(criterion, scheme, parts)
+    options.check()
     scene = _as_scene(scene)
     total = len(years) + 1
     window = prepare_window(scene, samples=samples, seed=seed, resolution_deg=resolution_deg, cache_dir=cache_dir)
@@ -451,20 +484,7 @@ def scan_scene(
         if progress is not None:
             progress(done + 1, total)
 
-    result = scan_window(
-        window,
-        scene.observer,
-        years,
-        criterion=criterion,
-        scheme=scheme,
-        parts=parts,
-        source=source,
-        delta_t_s=delta_t_s,
-        calendar=calendar,
-        with_light_map=with_light_map,
-        progress=step,
-        scene_label=str(getattr(scene, "label", "") or scene.path),
-        seed=seed,
-    )
+    label = str(getattr(scene, "label", "") or scene.path)
+    result = scan_window_with(window, scene.observer, years, options, progress=step, scene_label=label, seed=seed)
     notes = list(result.notes) + list(getattr(scene, "warnings", []))
     return ScanResult(result.scene, result.settings, result.target_area_m2, result.years, notes)

@@ -307,7 +307,7 @@ def visit_scene(
     ``samples``, ``seed``, ``resolution_deg`` and ``cache_dir``).  Sunrise and sunset use
     :func:`lightpath.sky.sun.sun_position` with the model ΔT.
     """
-    from lightpath.light.scan import prepare_window, scan_window
+    from lightpath.light.scan import ScanOptions, prepare_window, scan_window_with
     from lightpath.sky.deltat import tt_from_ut
     from lightpath.sky.sun import sun_position
 
@@ -318,13 +318,12 @@ def visit_scene(
     if window is None:
         window = prepare_window(scene, samples=samples, seed=seed, resolution_deg=resolution_deg, cache_dir=cache_dir)
     label = str(getattr(scene, "label", "") or getattr(scene, "path", "scene"))
+    options = ScanOptions(criterion=criterion, scheme=scheme, parts=parts, source=source)
     warnings = list(getattr(scene, "warnings", []))
 
     def scan(case_scene: Any, years: Sequence[int]) -> ScanResult:
-        result = scan_window(window, case_scene.observer, years, criterion=criterion, scheme=scheme, parts=parts,
-                             source=source, scene_label=label, seed=seed)  # fmt: skip
-        notes = list(result.notes) + [w for w in warnings if w not in result.notes]
-        return ScanResult(result.scene, result.settings, result.target_area_m2, result.years, notes)
+        return scan_window_with(window, case_scene.observer, years, options, scene_label=label, seed=seed,
+                                scene_notes=warnings)  # fmt: skip
 
     def altitude(jd_ut: np.ndarray, observer: Observer) -> np.ndarray:
         return np.asarray(sun_position(tt_from_ut(jd_ut), observer, source=source).altitude_deg, dtype=float)
