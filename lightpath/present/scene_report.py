@@ -22,7 +22,7 @@ import warnings
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -37,6 +37,9 @@ from lightpath.present.visits import VISIT_COLUMNS, visit_entries, visit_rows
 from lightpath.present.window_figures import light_patch_figure, sky_window_figure, window_outlines
 from lightpath.sky.calendar import year_label
 from lightpath.study.visit import VisitPlan, local_day_start, visit_scene
+
+if TYPE_CHECKING:
+    from lightpath.light.scan import ScanOptions
 
 __all__ = ["ReportOutput", "make_report", "patch_frames", "site_summary", "sun_tracks"]
 
@@ -53,6 +56,22 @@ class ReportOutput:
     visit: VisitPlan | None = None
     seconds: dict[str, float] = field(default_factory=dict)
     warnings: list[str] = field(default_factory=list)  # accuracy warnings raised on the way (also in the report)
+
+
+@dataclass(frozen=True)
+class _ReportSettings:
+    """The keywords of :func:`make_report` (units there), carried into the work it records warnings around."""
+
+    out_dir: str | os.PathLike
+    visit_year: int | None
+    drift_years: Sequence[int] | None
+    scan: ScanOptions  # criterion, scheme, parts, source
+    samples: int
+    seed: int
+    resolution_deg: float
+    cache_dir: str | os.PathLike | None
+    formats: Sequence[str]
+    progress: Callable[[int], None] | None
 
 
 def site_summary(scene: Any, window: Any) -> list[tuple[str, str]]:
@@ -164,14 +183,15 @@ def make_report(
     formats : figure files beside the report (``png`` always; ``svg`` optional).
     progress : called with 1 after each stage (6 stages, 3 more with a visit year, 2 more with drift years).
     """
-    options = dict(criterion=criterion, scheme=scheme, parts=parts, samples=samples, seed=seed, source=source,
-                   resolution_deg=resolution_deg, cache_dir=cache_dir, formats=formats, progress=progress)  # fmt: skip
+    from lightpath.light.scan import ScanOptions
     from lightpath.sky.sources import SunAccuracyWarning
 
+    scan = ScanOptions(criterion=criterion, scheme=scheme, parts=parts, source=source)
+    settings = _ReportSettings(out_dir, visit_year, drift_years, scan, samples, seed, resolution_deg, cache_dir,
+                               formats, progress)  # fmt: skip
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", SunAccuracyWarning)  # every accuracy notice, for the report's notes
-        out = _make_report(scene, year, caught, out_dir=out_dir, visit_year=visit_year, drift_years=drift_years,
-                           **options)  # fmt: skip
+        out = _make_report(scene, year, caught, settings)
     for w in caught:  # anything that is not an accuracy notice goes on as a warning
         if not _is_accuracy_warning(w):
             warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
@@ -193,31 +213,16 @@ def _accuracy_messages(caught: Sequence[warnings.WarningMessage]) -> list[str]:
     return out
 
 
-def _make_report(
-    scene: Any,
-    year: int,
-    caught: list,
-    *,
-    out_dir: str | os.PathLike,
-    visit_year: int | None = None,
-    drift_years: Sequence[int] | None = None,
-    criterion: str = "first-gleam",
-    scheme: str = "longitude",
-    parts: int = 8,
-    samples: int = 400,
-    seed: int = 0,
-    source: str = "auto",
-    resolution_deg: float = 0.1,
-    cache_dir: str | os.PathLike | None = None,
-    formats: Sequence[str] = ("png", "svg"),
-    progress: Callable[[int], None] | None = None,
-) -> ReportOutput:
+def _make_report(scene: Any, year: int, caught: list, settings: _ReportSettings) -> ReportOutput:
+    import dataclasses
     import time
 
-    from lightpath.light.scan import prepare_window, scan_window
+    from lightpath.light.scan import prepare_window, scan_window_with
     from lightpath.site.scene import load_scene
 
-    step = progress or (lambda n=1: None)
+    step = settings.progress or (lambda n=1: None)
+    visit_year, drift_years, formats, seed = settings.visit_year, settings.drift_years, settings.formats, settings.seed
+    o = settings.scan
     seconds: dict[str, float] = {}
     clock = time.perf_counter()
 
@@ -230,17 +235,17 @@ def _make_report(
 
     if isinstance(scene, str | os.PathLike):
         scene = load_scene(scene)
-    window = prepare_window(scene, samples=samples, seed=seed, resolution_deg=resolution_deg, cache_dir=cache_dir)
+    window = prepare_window(scene, samples=settings.samples, seed=seed, resolution_deg=settings.resolution_deg,
+                            cache_dir=settings.cache_dir)  # fmt: skip
     label = str(scene.label)
-    options = dict(criterion=criterion, scheme=scheme, parts=parts, source=source, scene_label=label, seed=seed)
     lap("window")
 
-    def scan(case_scene, years, **extra):
-        result = scan_window(window, case_scene.observer, years, **options, **extra)
-        notes = list(result.notes) + [w for w in getattr(scene, "warnings", []) if w not in result.notes]
-        return ScanResult(result.scene, result.settings, result.target_area_m2, result.years, notes)
+    def scan(years, **extra):
+        options = dataclasses.replace(o, **extra)
+        return scan_window_with(window, scene.observer, years, options, scene_label=label, seed=seed,
+                                scene_notes=getattr(scene, "warnings", []))  # fmt: skip
 
-    main = scan(scene, [year], with_light_map=True)
+    main = scan([year], with_light_map=True)
     year_scan = main.years[0]
     lap("scan")
 
@@ -248,7 +253,7 @@ def _make_report(
     if drift_years is not None:
         if len(drift_years) < 2:
             raise InputError("--drift: give at least two years (START:END:STEP)")
-        drift = scan(scene, list(drift_years))
+        drift = scan(list(drift_years))
         lap("drift")
 
     plan = None
@@ -258,7 +263,7 @@ def _make_report(
         last = jd_from_local_date(_dt.date(visit_year + 1, 1, 1), zone)
 
         plan = visit_scene(
-            scene, first, last, criterion=criterion, scheme=scheme, parts=parts, seed=seed, source=source,
+            scene, first, last, criterion=o.criterion, scheme=o.scheme, parts=o.parts, seed=seed, source=o.source,
             window=window, progress=step,
         )  # fmt: skip
         seconds["visit"] = round(time.perf_counter() - clock, 3)
@@ -268,7 +273,7 @@ def _make_report(
         _figure(
             "light-calendar",
             f"Lit area of the target by day and local apparent time, {year_label(year)}; dashed lines mark the "
-            f"divisions of the year ({scheme}, {parts} parts).",
+            f"divisions of the year ({o.scheme}, {o.parts} parts).",
             light_calendar_figure(
                 year_scan, longitude_deg=scene.observer.longitude_deg, target_area_m2=main.target_area_m2
             ),  # fmt: skip
@@ -283,7 +288,7 @@ def _make_report(
             "The sky the target sees through the opening (shaded: from some part of the target), the horizon "
             f"profile and the Sun's apparent path on each division day of {year_label(year)}.",
             sky_window_figure(
-                outlines, horizon=_horizon_arrays(scene), sun_tracks=sun_tracks(year_scan, scene.observer, source)
+                outlines, horizon=_horizon_arrays(scene), sun_tracks=sun_tracks(year_scan, scene.observer, o.source)
             ),  # fmt: skip
             formats,
         )
@@ -291,7 +296,7 @@ def _make_report(
     lap("sky window")
     if year_scan.events:
         best = max(year_scan.events, key=lambda e: (e.peak_area_m2, -e.start_jd_ut))
-        lit, labels = patch_frames(window, scene.observer, best, criterion, source)
+        lit, labels = patch_frames(window, scene.observer, best, o.criterion, o.source)
         figures.append(
             _figure(
                 "light-patch",
@@ -338,11 +343,11 @@ def _make_report(
     main = ScanResult(main.scene, main.settings, main.target_area_m2, main.years,
                       list(main.notes) + [m for m in accuracy_warnings if m not in main.notes])  # fmt: skip
     paths = write_report(
-        out_dir, main, site=site_summary(scene, window), figures=figures, tables=tables, made_with=made_with
+        settings.out_dir, main, site=site_summary(scene, window), figures=figures, tables=tables, made_with=made_with
     )
     if plan is not None:
         paths["visit.ics"] = write_calendar(
-            Path(out_dir) / "visit.ics", visit_entries(plan), name=f"Sunlight on the target: {label}"
+            Path(settings.out_dir) / "visit.ics", visit_entries(plan), name=f"Sunlight on the target: {label}"
         )
     lap("write")
     return ReportOutput(paths, main, drift, plan, seconds, accuracy_warnings)
