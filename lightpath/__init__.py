@@ -58,6 +58,8 @@ _EXPORTS = {
     "prepare_window": "lightpath.light.scan",
     "scan_scene": "lightpath.light.scan",
     "scan_window": "lightpath.light.scan",
+    "scan_window_with": "lightpath.light.scan",
+    "ScanOptions": "lightpath.light.scan",
     # study: claims and visits
     "framing_test": "lightpath.study.framing",
     "alignment_epochs": "lightpath.study.epochs",
