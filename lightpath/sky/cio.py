@@ -52,6 +52,8 @@ import erfa
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from lightpath.sky.nodes import lagrange4_weights
+
 __all__ = ["IAU2006_S_POLYNOMIAL_RAD", "cio_locator_rad", "s_plus_half_xy_rad"]
 
 _ARCSEC = np.pi / (180.0 * 3600.0)
@@ -84,7 +86,9 @@ def _nodes() -> NDArray:
     xm, ym, _ = _pole(epoch - _DIFF_YEARS)
     dx, dy = (xp - xm) / (2 * _DIFF_YEARS), (yp - ym) / (2 * _DIFF_YEARS)
     rate = -(x * dy - y * dx) / (1.0 + z)  # ds/dt, radians per Julian year
-    s = _cumulative_simpson(rate, _STEP_YEARS)
+    from scipy.integrate import cumulative_simpson  # here: scipy.integrate takes 0.5 s to import
+
+    s = cumulative_simpson(rate, dx=_STEP_YEARS, initial=0.0)
     s_plus = s + x * y / 2.0
     i0 = int(round((2000.0 - _FIRST_EPOCH) / _STEP_YEARS))
     centuries = (epoch - 2000.0) / 100.0
@@ -96,29 +100,13 @@ def _nodes() -> NDArray:
     return s_plus - s_plus[i0] + drift + IAU2006_S_POLYNOMIAL_RAD[0]
 
 
-def _cumulative_simpson(f: NDArray, h: float) -> NDArray:
-    """∫ f from the first node to each node: Simpson's rule on pairs, the odd nodes by the 3-point rule."""
-    out = np.zeros_like(f)
-    # each interval [i, i+1] by the quadratic through nodes i-1, i, i+1 (or i, i+1, i+2 for the first)
-    inner = h * (-f[:-2] + 8.0 * f[1:-1] + 5.0 * f[2:]) / 12.0  # ∫ over [i+1, i+2] from nodes i, i+1, i+2
-    first = h * (5.0 * f[0] + 8.0 * f[1] - f[2]) / 12.0
-    out[1] = first
-    out[2:] = first + np.cumsum(inner)
-    return out
-
-
 def _interpolate(values: NDArray, epoch: NDArray) -> NDArray:
-    """4-point (cubic) Lagrange interpolation on the uniform node grid (Abramowitz & Stegun 1964, 25.2.13)."""
+    """4-point (cubic) Lagrange interpolation on the uniform node grid."""
     u = (epoch - _FIRST_EPOCH) / _STEP_YEARS
     k = np.clip(np.floor(u), 1, values.size - 3)
-    x = u - k
     i = k.astype(int)
-    return (
-        -x * (x - 1.0) * (x - 2.0) / 6.0 * values[i - 1]
-        + (x + 1.0) * (x - 1.0) * (x - 2.0) / 2.0 * values[i]
-        - (x + 1.0) * x * (x - 2.0) / 2.0 * values[i + 1]
-        + (x + 1.0) * x * (x - 1.0) / 6.0 * values[i + 2]
-    )
+    w = lagrange4_weights(u - k)
+    return w[0] * values[i - 1] + w[1] * values[i] + w[2] * values[i + 1] + w[3] * values[i + 2]
 
 
 def s_plus_half_xy_rad(jd_tt: ArrayLike) -> NDArray:

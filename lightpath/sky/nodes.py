@@ -40,7 +40,7 @@ from numpy.typing import NDArray
 
 from lightpath.threads import split_map
 
-__all__ = ["chebyshev_blocks", "lagrange_on_grid"]
+__all__ = ["chebyshev_blocks", "lagrange4_weights", "lagrange_on_grid"]
 
 Func = Callable[[NDArray], NDArray]
 _CLENSHAW_CHUNK = 8192
@@ -73,15 +73,24 @@ def lagrange_on_grid(func: Func, t: NDArray, step: float, *, min_saving: float =
     values = np.asarray(func(needed * step))
     idx = np.searchsorted(needed, k - 1)
     x = tt / step - k  # 0 ≤ x < 1 inside the central interval
-    # Abramowitz & Stegun (1964) eq. 25.2.13, nodes at -1, 0, 1, 2
-    w = (
+    out = sum(wj[:, None] * values[idx + j] for j, wj in enumerate(lagrange4_weights(x)))
+    return _scatter(out, flat, ok, np.shape(t))
+
+
+def lagrange4_weights(x: NDArray) -> tuple[NDArray, NDArray, NDArray, NDArray]:
+    """Weights of the 4-point (cubic) Lagrange formula for nodes at −1, 0, 1, 2 and offsets ``x`` from node 0.
+
+    Abramowitz & Stegun (1964) eq. 25.2.13.
+
+    >>> [float(w) for w in lagrange4_weights(np.array(0.5))]  # midway between nodes 0 and 1
+    [-0.0625, 0.5625, 0.5625, -0.0625]
+    """
+    return (
         -x * (x - 1.0) * (x - 2.0) / 6.0,
         (x + 1.0) * (x - 1.0) * (x - 2.0) / 2.0,
         -(x + 1.0) * x * (x - 2.0) / 2.0,
         (x + 1.0) * x * (x - 1.0) / 6.0,
     )
-    out = sum(wj[:, None] * values[idx + j] for j, wj in enumerate(w))
-    return _scatter(out, flat, ok, np.shape(t))
 
 
 def _chebyshev_matrix(degree: int) -> tuple[NDArray, NDArray]:
