@@ -176,3 +176,19 @@ def test_year_labels():
     for bad in ("0 BC", "0 AD", "-5 BC", "BC", "twelve"):
         with pytest.raises(InputError):
             year_from_label(bad)
+
+
+@pytest.mark.parametrize("day", [5.0, 10.0, 14.99])
+def test_julian_day_refuses_the_reform_gap_with_the_parsers_message(day):
+    # Meeus (1998) ch. 7: in the default calendar 1582 October 4 (Julian) is followed by October 15 (Gregorian),
+    # so October 5-14 name no day; julian_day and validate_date refuse them with one message.
+    with pytest.raises(InputError) as from_jd:
+        julian_day(1582, 10, day)
+    with pytest.raises(InputError) as from_parser:
+        validate_date(1582, 10, day)
+    assert str(from_jd.value) == str(from_parser.value)
+    with pytest.raises(InputError, match="1582-10-14"):
+        julian_day([1582, 1582], [10, 10], [4.0, 14.5])  # one bad element in an array is enough
+    # forcing a calendar names a real day: Gregorian 1582-10-10 is Julian 1582-09-30 (Meeus 1998 ch. 7)
+    assert julian_day(1582, 10, 10.0, "gregorian") == julian_day(1582, 9, 30.0, "julian")
+    assert julian_day(1582, 10, 4.99) < julian_day(1582, 10, 15.0)  # the days either side still work

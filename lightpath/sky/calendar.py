@@ -64,6 +64,16 @@ def _check_calendar(calendar: str) -> None:
         raise InputError(f"calendar {calendar!r} is not one of auto, julian, gregorian")
 
 
+def _reform_gap_error(what: str, day: float):
+    """The one-line InputError for a day of 1582 October 5-14 read in the default calendar."""
+    from lightpath.errors import InputError
+
+    return InputError(
+        f"{what}: 1582-10-{int(day):02d} does not exist in the default calendar (Julian to October 4, "
+        "Gregorian from October 15); force the julian or gregorian calendar"
+    )
+
+
 def julian_day(year: ArrayLike, month: ArrayLike, day: ArrayLike, calendar: Calendar = "auto") -> NDArray:
     """Julian day of a calendar date (``day`` may carry a fraction of a day).
 
@@ -73,6 +83,8 @@ def julian_day(year: ArrayLike, month: ArrayLike, day: ArrayLike, calendar: Cale
     month : int or array, 1-12.
     day : float or array, day of the month with its fraction (1.5 = noon of the 1st).
     calendar : ``"auto"`` (Julian before 1582-10-15, Gregorian after), ``"julian"`` or ``"gregorian"``.
+        With ``"auto"`` the ten days 1582 October 5-14 that the reform skipped raise
+        :class:`~lightpath.errors.InputError` with the same one-line message as :func:`validate_date`.
 
     Returns
     -------
@@ -93,6 +105,10 @@ def julian_day(year: ArrayLike, month: ArrayLike, day: ArrayLike, calendar: Cale
     y = np.asarray(year, dtype=np.int64)
     m = np.asarray(month, dtype=np.int64)
     d = np.asarray(day, dtype=np.float64)
+    if calendar == "auto":
+        gap = (y == 1582) & (m == 10) & (d >= 5.0) & (d < 15.0)
+        if np.any(gap):
+            raise _reform_gap_error("date", float(np.broadcast_to(d, gap.shape)[gap].flat[0]))
     # Meeus (1998) eq. 7.1: January and February count as months 13 and 14 of the year before.
     early = m <= 2
     yy = np.where(early, y - 1, y)
@@ -275,10 +291,7 @@ def validate_date(year: int, month: int, day: float, calendar: Calendar = "auto"
         raise InputError(f"{what}: day {day:g} is outside 1..31")
     used = calendar_of_date(year, month, day, calendar)
     if calendar == "auto" and (year, month) == (1582, 10) and 5.0 <= day < 15.0:
-        raise InputError(
-            f"{what}: 1582-10-{int(day):02d} does not exist in the default calendar (Julian to October 4, "
-            "Gregorian from October 15); force the julian or gregorian calendar"
-        )
+        raise _reform_gap_error(what, day)
     n = int(days_in_month(year, month, used))
     if day >= n + 1:
         raise InputError(
