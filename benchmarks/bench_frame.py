@@ -41,7 +41,7 @@ def main() -> None:
     args = parser.parse_args()
 
     from lightpath.commands._common import to_jsonable
-    from lightpath.site.scene import demo_scene_path, load_scene
+    from lightpath.scene import demo_scene_path, load_scene
     from lightpath.sky.sources import SunAccuracyWarning
     from lightpath.study.framing import framing_test
     from lightpath.study.light_days import default_span_days, light_days_for_scene

@@ -19,7 +19,7 @@ from typing import Any
 
 __version__ = "0.1.0"
 
-# name -> module that defines it (layers: sky, site, light, study, present).
+# name -> module that defines it (layers: sky, site, scene, light, study, present).
 _EXPORTS = {
     # sky: time, calendars, the Sun, the year
     "InputError": "lightpath.errors",
@@ -46,14 +46,18 @@ _EXPORTS = {
     "HorizonProfile": "lightpath.sky.horizon",
     "flat_horizon": "lightpath.sky.horizon",
     "read_horizon_csv": "lightpath.sky.horizon",
-    # site: scenes and chambers
-    "load_scene": "lightpath.site",
+    # site: chambers and target samples (geometry)
     "sample_target": "lightpath.site",
-    "scene_from_model": "lightpath.site",
-    "demo_scene_path": "lightpath.site",
     "passage_chamber": "lightpath.site",
     "slit_shrine": "lightpath.site",
     "window_room": "lightpath.site",
+    # scene: scene files (site geometry + observer, horizon, air)
+    "Scene": "lightpath.scene",
+    "load_scene": "lightpath.scene",
+    "scene_from_model": "lightpath.scene",
+    "demo_scene_path": "lightpath.scene",
+    "DEMO_SITES": "lightpath.scene",
+    "standard_pressure_mbar": "lightpath.scene",
     # light: the engine
     "prepare_window": "lightpath.light.scan",
     "scan_scene": "lightpath.light.scan",

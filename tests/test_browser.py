@@ -14,7 +14,7 @@ import lxml.html
 import pytest
 
 from lightpath.present.scene_report import make_report
-from lightpath.site.scene import demo_scene_path
+from lightpath.scene import demo_scene_path
 
 CHROMIUM = shutil.which("chromium") or shutil.which("chromium-browser")
 

@@ -7,7 +7,7 @@ import json
 import pytest
 
 from lightpath.cli import main
-from lightpath.site.scene import demo_scene_path
+from lightpath.scene import demo_scene_path
 
 SHRINE = str(demo_scene_path("shrine"))
 FAST = ["--samples", "16", "--resolution", "0.1", "--workers", "1", "--quiet"]

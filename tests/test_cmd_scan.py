@@ -8,7 +8,7 @@ import json
 import pytest
 
 from lightpath.cli import main
-from lightpath.site.scene import demo_scene_path
+from lightpath.scene import demo_scene_path
 
 SCENE = str(demo_scene_path("window"))
 

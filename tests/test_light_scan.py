@@ -13,7 +13,7 @@ from lightpath.errors import InputError
 from lightpath.light.disc import lit_area, lit_area_weighted
 from lightpath.light.scan import parse_years, prepare_window, scan_scene
 from lightpath.light.window import compute_window
-from lightpath.site.scene import demo_scene_path, load_scene
+from lightpath.scene import demo_scene_path, load_scene
 from lightpath.sky.horizon import flat_horizon
 from lightpath.sky.observer import Observer
 from lightpath.sky.vectors import enu_from_azalt

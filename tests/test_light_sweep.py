@@ -152,7 +152,7 @@ def _brute_force_days(scene, window, year, criterion):
 def test_demo_site_window_path_matches_brute_force(site):
     from lightpath.light.events import local_day_number
     from lightpath.light.scan import prepare_window
-    from lightpath.site.scene import demo_scene_path, load_scene
+    from lightpath.scene import demo_scene_path, load_scene
 
     scene = load_scene(demo_scene_path(site))
     window = prepare_window(scene, samples=6, seed=3)

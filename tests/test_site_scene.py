@@ -8,7 +8,7 @@ import pytest
 from lightpath.errors import InputError
 from lightpath.site.builders import window_room
 from lightpath.site.export import export_mesh, export_obj
-from lightpath.site.scene import DEMO_SITES, demo_scene_path, load_scene, standard_pressure_mbar
+from lightpath.scene import DEMO_SITES, demo_scene_path, load_scene, standard_pressure_mbar
 
 BASE = """
 [site]
@@ -253,7 +253,7 @@ def test_terrain_horizon_in_a_scene(tmp_path):
 
 
 def test_scene_from_model_matches_the_file_route(folder, room):
-    from lightpath.site.modelscene import scene_from_model
+    from lightpath.scene import scene_from_model
 
     from_file = load_scene(write(folder, BASE))
     direct = scene_from_model(room, from_file.observer)

@@ -6,7 +6,7 @@ import pytest
 
 from lightpath.errors import InputError
 from lightpath.site.builders import Bend, Chamber, Slot, passage_chamber
-from lightpath.site.scene import load_scene
+from lightpath.scene import load_scene
 
 PASSAGE = """
 [site]

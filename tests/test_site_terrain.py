@@ -1,4 +1,4 @@
-"""Horizon from terrain in the mesh, against closed-form altitudes of analytic terrains."""
+"""Skyline from terrain in the mesh (site layer: plain arrays), against closed-form altitudes of analytic terrains."""
 
 import math
 
@@ -7,8 +7,7 @@ import pytest
 import trimesh
 
 from lightpath.errors import InputError
-from lightpath.site.terrain import TERRESTRIAL_REFRACTION_K, horizon_from_terrain
-from lightpath.sky.horizon import EARTH_RADIUS_M
+from lightpath.site.terrain import EARTH_RADIUS_M, TERRESTRIAL_REFRACTION_K, skyline_from_terrain
 
 
 def bowl(rim_radius_m, rim_height_m, segments=720, rings=8):
@@ -41,17 +40,18 @@ def ridge(distance_m, height_m, half_length_m=5000.0):
 def test_cone_rim_closed_form():
     # closed form: eye at height e over the apex sees the rim at atan((H - e) / R)
     R, H, eye = 800.0, 60.0, 1.6
-    h, notes = horizon_from_terrain(bowl(R, H), (0.0, 0.0, eye), step_deg=5.0, curvature=False)
+    h = skyline_from_terrain(bowl(R, H), (0.0, 0.0, eye), step_deg=5.0, curvature=False)
     expected = math.degrees(math.atan((H - eye) / R))
     # polygon rim: between vertices the rim is nearer by at most 1 - cos(0.25°) ≈ 1e-5 (negligible);
     # bisection to 1/256° → tolerance 0.01°
     assert np.max(np.abs(h.altitude_deg - expected)) < 0.01
-    assert notes == []
+    assert h.notes == []
+    assert np.array_equal(h.azimuth_deg, np.arange(0.0, 360.0, 5.0))
 
 
 def test_cone_with_curvature_and_refraction():
     R, H = 10_000.0, 500.0
-    h, _ = horizon_from_terrain(bowl(R, H, segments=360, rings=4), (0.0, 0.0, 2.0), step_deg=30.0)
+    h = skyline_from_terrain(bowl(R, H, segments=360, rings=4), (0.0, 0.0, 2.0), step_deg=30.0)
     flat = math.degrees(math.atan((H - 2.0) / R))
     drop = math.degrees((1 - TERRESTRIAL_REFRACTION_K) * R / (2 * EARTH_RADIUS_M))  # 0.039° at 10 km
     assert drop == pytest.approx(0.0391, abs=1e-3)
@@ -61,17 +61,17 @@ def test_cone_with_curvature_and_refraction():
 def test_ridge_closed_form():
     # closed form: along azimuth A the crest line x = D is at horizontal distance D / sin A, so alt = atan(H sin A / D)
     D, H = 300.0, 40.0
-    h, notes = horizon_from_terrain(ridge(D, H), (0.0, 0.0, 0.0), step_deg=2.0, curvature=False)
-    az = np.arange(40.0, 142.0, 2.0)
-    expected = np.degrees(np.arctan(H * np.sin(np.radians(az)) / D))
-    assert np.max(np.abs(h.altitude_at(az) - expected)) < 0.01
+    h = skyline_from_terrain(ridge(D, H), (0.0, 0.0, 0.0), step_deg=2.0, curvature=False)
+    east = (h.azimuth_deg >= 40.0) & (h.azimuth_deg <= 140.0)
+    expected = np.degrees(np.arctan(H * np.sin(np.radians(h.azimuth_deg[east])) / D))
+    assert np.max(np.abs(h.altitude_deg[east] - expected)) < 0.01
     # looking west there is no terrain: altitude 0 and a note naming it
-    assert h.altitude_at(270.0) == 0.0
-    assert notes and "no terrain" in notes[0]
+    assert h.altitude_deg[h.azimuth_deg == 270.0].tolist() == [0.0]
+    assert h.notes and "no terrain" in h.notes[0]
 
 
 def test_bad_terrain_inputs():
-    with pytest.raises(InputError, match="step_deg"):
-        horizon_from_terrain(ridge(100.0, 10.0), (0, 0, 0), step_deg=45.0)
+    with pytest.raises(InputError, match="^step_deg: "):
+        skyline_from_terrain(ridge(100.0, 10.0), (0, 0, 0), step_deg=45.0)
     with pytest.raises(InputError, match="no faces"):
-        horizon_from_terrain(trimesh.Trimesh(), (0, 0, 0))
+        skyline_from_terrain(trimesh.Trimesh(), (0, 0, 0))

@@ -110,7 +110,7 @@ def test_connect_cluster_by_address(dask_client):
 def test_frame_command_on_a_cluster_gives_the_serial_json(dask_client, capsys):
     """``lightpath frame --cluster ADDRESS`` returns the same JSON as a serial run."""
     from lightpath.cli import main
-    from lightpath.site.scene import demo_scene_path
+    from lightpath.scene import demo_scene_path
 
     argv = ["frame", str(demo_scene_path("shrine")), "--epoch", "-1499±0", "--division", "cross_quarter_aug"]
     argv += ["--draws", "4", "--null-draws", "4", "--samples", "16", "--resolution", "0.1", "--json", "--quiet"]

@@ -210,7 +210,7 @@ STORIES = {
 def check(name: str, site: dict) -> None:
     """Run the engine on the regenerated site for its epoch and print where light falls (needs lightpath.light)."""
     from lightpath.light.scan import scan_scene
-    from lightpath.site.scene import load_scene
+    from lightpath.scene import load_scene
 
     result = scan_scene(load_scene(OUT / name / "scene.toml"), [site["epoch_year"]], samples=300)
     year = result.years[0]

@@ -91,7 +91,7 @@ def run_demo(
     from lightpath.present.scene_report import make_report
     from lightpath.site.report import scene_summary
     from lightpath.site.sampling import sample_target
-    from lightpath.site.scene import demo_scene_path, load_scene
+    from lightpath.scene import demo_scene_path, load_scene
     from lightpath.sky.calendar import year_label
     from lightpath.sky.sources import SunAccuracyWarning
 

@@ -90,7 +90,7 @@ def _tolerances(scene, overrides: list[str]):
 
 def open_study(args: argparse.Namespace, names: tuple[str, ...] | None):
     """(scene, LightDays, axis_enu, distance_m, Tolerances) from the shared options."""
-    from lightpath.site.scene import load_scene
+    from lightpath.scene import load_scene
     from lightpath.study.light_days import default_span_days, light_days_for_scene
 
     if args.parts < 2:

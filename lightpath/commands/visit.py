@@ -71,7 +71,7 @@ def run(args: argparse.Namespace) -> int:
     from lightpath.present.civil import jd_from_local_date, parse_local_date, time_zone
     from lightpath.present.ics import write_calendar
     from lightpath.present.visits import visit_entries, visit_text
-    from lightpath.site.scene import load_scene
+    from lightpath.scene import load_scene
     from lightpath.study.visit import visit_scene
 
     first_day = parse_local_date(args.from_date, option="--from")

@@ -189,7 +189,7 @@ def prepare_window(
 
 def _as_scene(scene):
     if isinstance(scene, str | Path):
-        from lightpath.site.scene import load_scene
+        from lightpath.scene import load_scene
 
         return load_scene(scene)
     return scene

@@ -218,7 +218,7 @@ def _make_report(scene: Any, year: int, caught: list, settings: _ReportSettings)
     import time
 
     from lightpath.light.scan import prepare_window, scan_window_with
-    from lightpath.site.scene import load_scene
+    from lightpath.scene import load_scene
 
     step = settings.progress or (lambda n=1: None)
     visit_year, drift_years, formats, seed = settings.visit_year, settings.drift_years, settings.formats, settings.seed

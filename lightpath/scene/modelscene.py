@@ -1,4 +1,4 @@
-"""A :class:`~lightpath.site.scene.Scene` straight from a parametric model, without writing any file.
+"""A :class:`~lightpath.scene.scene.Scene` straight from a parametric model, without writing any file.
 
 Handy in notebooks and tests: build a chamber from survey numbers, give the site, and hand the scene to the
 engine.
@@ -16,9 +16,9 @@ from pathlib import Path
 
 import numpy as np
 
+from lightpath.scene.scene import Scene, hash_geometry
 from lightpath.site import checks
 from lightpath.site.report import load_report
-from lightpath.site.scene import Scene, _hash_geometry
 from lightpath.sky.horizon import HorizonProfile, flat_horizon
 from lightpath.sky.observer import Observer
 
@@ -59,5 +59,5 @@ def scene_from_model(
         tolerances=dict(tolerances or {}),
         report=report,
         warnings=warnings,
-        content_hash=_hash_geometry(mesh, target, opening),
+        content_hash=hash_geometry(mesh, target, opening),
     )

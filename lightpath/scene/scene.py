@@ -19,7 +19,6 @@ Everything comes out in the site frame (East-North-Up metres).  ``Scene.mesh`` h
 blocks light (the target included); the opening — the surface light passes through, e.g. a pane across a
 slot — never blocks light: faces selected as the opening by name are taken out of ``Scene.mesh``.
 
->>> from lightpath.site.scene import demo_scene_path
 >>> scene = load_scene(demo_scene_path("passage"))
 >>> scene.observer.latitude_deg > 50 and scene.opening is not None and scene.report.target_area_m2 > 0
 True
@@ -36,17 +35,17 @@ from pathlib import Path
 import numpy as np
 
 from lightpath.errors import InputError
+from lightpath.scene.keys import TOLERANCE_KEYS, boolean, check_keys, choice, names, number, text, vector3
+from lightpath.scene.terrain import horizon_from_terrain
 from lightpath.site import checks
 from lightpath.site.frames import AXES, NORTH_REFERENCES, UNIT_TO_M, apply_transform, model_to_site_matrix
 from lightpath.site.meshes import LabeledMesh, read_mesh
 from lightpath.site.report import LoadReport, load_report
-from lightpath.site.scene_keys import TOLERANCE_KEYS, boolean, check_keys, choice, names, number, text, vector3
 from lightpath.site.targets import box_mesh, faces_in_box, polygon_mesh, select_by_name, submesh
-from lightpath.site.terrain import horizon_from_terrain
 from lightpath.sky.horizon import HorizonProfile, flat_horizon, horizon_dip_deg, read_horizon_csv
 from lightpath.sky.observer import REFRACTION_MODELS, Observer
 
-__all__ = ["Scene", "load_scene", "demo_scene_path", "DEMO_SITES", "standard_pressure_mbar"]
+__all__ = ["Scene", "load_scene", "demo_scene_path", "DEMO_SITES", "standard_pressure_mbar", "hash_geometry"]
 
 #: Demo sites shipped in ``lightpath/demo_models/`` (folder name → scene file).
 DEMO_SITES = {"passage": "passage/scene.toml", "shrine": "shrine/scene.toml", "window": "window/scene.toml"}
@@ -139,7 +138,8 @@ def _box(table: dict, name: str, where: str):
     return lo, hi
 
 
-def _hash_geometry(*meshes) -> str:
+def hash_geometry(*meshes) -> str:
+    """SHA-256 (hex) of the meshes' vertices (float64) and faces (int64); ``None`` hashes as a fixed token."""
     digest = hashlib.sha256(_HASH_VERSION)
     for m in meshes:
         if m is None:
@@ -359,5 +359,5 @@ def load_scene(path: str | os.PathLike) -> Scene:
         tolerances=tolerances,
         report=report,
         warnings=warnings,
-        content_hash=_hash_geometry(mesh, target, opening),
+        content_hash=hash_geometry(mesh, target, opening),
     )

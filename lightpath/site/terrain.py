@@ -1,4 +1,4 @@
-"""A horizon profile from terrain in the mesh, by casting rays from the site point all round.
+"""The skyline of terrain in the mesh, by casting rays from the site point all round: plain arrays.
 
 For each azimuth (every ``step_deg``) rays leave the viewpoint at altitudes 1° apart from −30° up to
 ``max_altitude_deg``; the highest altitude whose ray still hits the terrain brackets the skyline, which is
@@ -12,11 +12,14 @@ usual coefficient of terrestrial refraction (Gauss's value; common geodetic prac
 For terrain 1 km away the correction is 0.004°, for 10 km 0.039°.  Terrain already curved (geocentric
 coordinates) should use ``curvature=False``.
 
+This module is geometry alone: it returns azimuths and altitudes as arrays; the scene layer
+(:func:`lightpath.scene.terrain.horizon_from_terrain`) wraps them into a horizon profile.
+
 >>> import trimesh
 >>> wall = trimesh.creation.box(extents=(1.0, 400.0, 20.0)); _ = wall.apply_translation((100.0, 0.0, 10.0))
->>> h, notes = horizon_from_terrain(wall, (0.0, 0.0, 0.0), step_deg=30.0, curvature=False)
->>> round(float(h.altitude_at(90.0)), 2)   # atan(20 / 99.5)
-11.37
+>>> sky = skyline_from_terrain(wall, (0.0, 0.0, 0.0), step_deg=30.0, curvature=False)
+>>> float(sky.azimuth_deg[3]), round(float(sky.altitude_deg[3]), 2)   # east: atan(20 / 99.5)
+(90.0, 11.37)
 
 References
 ----------
@@ -26,12 +29,17 @@ Atmosphere*, Springer (k ≈ 0.13 for lines of sight near the ground, from memor
 
 from __future__ import annotations
 
+from typing import NamedTuple
+
 import numpy as np
 
 from lightpath.errors import InputError
-from lightpath.sky.horizon import EARTH_RADIUS_M, HorizonProfile
 
-__all__ = ["TERRESTRIAL_REFRACTION_K", "horizon_from_terrain", "enu_directions"]
+__all__ = ["EARTH_RADIUS_M", "TERRESTRIAL_REFRACTION_K", "TerrainSkyline", "skyline_from_terrain", "enu_directions"]
+
+#: Mean Earth radius, metres (IUGG mean radius R1 = 6371.0088 km; Moritz 2000, Geodetic Reference System 1980).
+#: The same value as ``lightpath.sky.horizon.EARTH_RADIUS_M`` (tests/test_layers.py checks they agree).
+EARTH_RADIUS_M = 6_371_008.8
 
 #: Coefficient of terrestrial refraction (Gauss's value; common geodetic practice).
 TERRESTRIAL_REFRACTION_K = 0.13
@@ -55,7 +63,16 @@ def _hits(terrain, origin: np.ndarray, azimuth_deg: np.ndarray, altitude_deg: np
     return np.asarray(terrain.ray.intersects_any(origins, directions)).reshape(np.shape(azimuth_deg))
 
 
-def horizon_from_terrain(
+class TerrainSkyline(NamedTuple):
+    """A skyline from terrain: plain arrays and notes (see :func:`skyline_from_terrain`)."""
+
+    azimuth_deg: np.ndarray  # (N,) from true north, clockwise, every step_deg from 0
+    altitude_deg: np.ndarray  # (N,) apparent altitude of the skyline, degrees
+    notes: list[str]  # azimuths without terrain, terrain above max_altitude_deg
+    label: str  # a short description for reports
+
+
+def skyline_from_terrain(
     terrain,
     from_m,
     *,
@@ -63,17 +80,19 @@ def horizon_from_terrain(
     max_altitude_deg: float = 60.0,
     curvature: bool = True,
     refraction_k: float = TERRESTRIAL_REFRACTION_K,
-) -> tuple[HorizonProfile, list[str]]:
+    earth_radius_m: float = EARTH_RADIUS_M,
+) -> TerrainSkyline:
     """Skyline of ``terrain`` (a trimesh in the site frame) seen from ``from_m`` (E, N, U metres).
 
-    Returns the profile (apparent altitudes, degrees) and a list of notes: azimuths where no terrain was hit
-    at all get altitude 0 (the astronomical horizon) and are named in a note.  Raises InputError for a
-    step outside (0, 30] degrees or an empty terrain.
+    Returns azimuths (degrees from north, every ``step_deg``) and the skyline's apparent altitudes (degrees),
+    with notes: azimuths where no terrain was hit at all get altitude 0 (the astronomical horizon) and are
+    named in a note.  ``earth_radius_m`` and ``refraction_k`` set the curvature correction (1 − k)·d/(2R).
+    Raises InputError for a ``step_deg`` outside (0, 30] degrees or an empty terrain.
     """
     if not (0 < step_deg <= 30):
-        raise InputError(f"horizon.step_deg: {step_deg!r} is outside (0, 30] degrees")
+        raise InputError(f"step_deg: {step_deg!r} is outside (0, 30] degrees")
     if terrain is None or len(terrain.faces) == 0:
-        raise InputError("horizon: the terrain groups have no faces")
+        raise InputError("terrain: the terrain mesh has no faces")
     origin = np.asarray(from_m, dtype=float).reshape(3)
     azimuth = np.arange(0.0, 360.0, float(step_deg))
     levels = np.arange(_LOWEST_DEG, float(max_altitude_deg) + 1.0, 1.0)
@@ -95,7 +114,7 @@ def horizon_from_terrain(
         )
         distance = np.zeros(azimuth.size)
         distance[ray_index] = np.hypot(*(locations[:, :2] - origin[:2]).T)
-        altitude = altitude - np.degrees((1.0 - refraction_k) * distance / (2.0 * EARTH_RADIUS_M))
+        altitude = altitude - np.degrees((1.0 - refraction_k) * distance / (2.0 * earth_radius_m))
     notes = []
     if not np.all(any_hit):
         missing = azimuth[~any_hit]
@@ -107,4 +126,4 @@ def horizon_from_terrain(
     if np.any(any_hit & (lo >= max_altitude_deg)):
         notes.append(f"horizon: terrain reaches max_altitude_deg {max_altitude_deg:g} at some azimuths")
     label = f"terrain from ({', '.join(f'{c:g}' for c in origin)}) m, step {step_deg:g} deg"
-    return HorizonProfile(azimuth, np.clip(altitude, -90.0, 90.0), source=label), notes
+    return TerrainSkyline(azimuth, np.clip(altitude, -90.0, 90.0), notes, label)

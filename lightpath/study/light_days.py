@@ -412,7 +412,7 @@ def light_days_for_scene(
     from lightpath.light.scan import prepare_window
 
     if not hasattr(scene, "observer"):
-        from lightpath.site.scene import load_scene
+        from lightpath.scene import load_scene
 
         scene = load_scene(scene)
     window = prepare_window(scene, samples=samples, seed=seed, resolution_deg=resolution_deg,

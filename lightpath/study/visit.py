@@ -312,7 +312,7 @@ def visit_scene(
     from lightpath.sky.sun import sun_position
 
     if not hasattr(scene, "observer"):
-        from lightpath.site.scene import load_scene
+        from lightpath.scene import load_scene
 
         scene = load_scene(scene)
     if window is None:
