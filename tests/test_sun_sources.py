@@ -31,8 +31,11 @@ def test_out_of_span_errors_name_instant_and_span():
 
 def test_missing_or_bad_kernel_file(tmp_path):
     missing = tmp_path / "de440.bsp"
-    with pytest.raises(InputError, match="de440.bsp.*does not exist"):
+    # the API layer names its parameter, not a command-line flag
+    with pytest.raises(InputError, match="^ephemeris_path: .*de440.bsp.*does not exist"):
         choose_source(2451545.0, ephemeris_path=str(missing))
+    with pytest.raises(InputError, match="^ephemeris_path: .*together with source 'vsop87'"):
+        choose_source(2451545.0, "vsop87", ephemeris_path=str(missing))
     junk = tmp_path / "junk.bsp"
     junk.write_bytes(b"not a kernel")
     with pytest.raises(InputError, match="junk.bsp"):

@@ -63,6 +63,7 @@ __all__ = [
     "delta_t_s",
     "delta_t_sigma_s",
     "iers_span_jd_tt",
+    "timescale",
     "tt_from_ut",
     "ut_date_uncertain",
     "ut_from_tt",
@@ -99,7 +100,7 @@ _DATE_UNCERTAIN_2SIGMA_S = 3600.0
 
 
 @functools.lru_cache(maxsize=1)
-def _timescale():
+def timescale():
     """skyfield's built-in Timescale, loaded once (no file is read or downloaded)."""
     import skyfield_data
     from skyfield.api import Loader
@@ -128,7 +129,7 @@ def year_of_jd(jd: ArrayLike) -> NDArray:
 
 def iers_span_jd_tt() -> tuple[float, float]:
     """First and last instant (JD TT) of the IERS daily values inside the model."""
-    table_tt = _timescale().delta_t_table[0]
+    table_tt = timescale().delta_t_table[0]
     return float(table_tt[0]), float(table_tt[-1])
 
 
@@ -159,7 +160,7 @@ def delta_t_s(jd_tt: ArrayLike) -> NDArray:
     out = np.full(flat.shape, np.nan)
     ok = np.isfinite(flat)
     if ok.any():
-        out[ok] = np.asarray(_timescale().delta_t_function(flat[ok]), dtype=np.float64)
+        out[ok] = np.asarray(timescale().delta_t_function(flat[ok]), dtype=np.float64)
     return _out(out.reshape(jd.shape))
 
 

@@ -35,7 +35,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from lightpath.errors import InputError
-from lightpath.sky.deltat import _timescale
+from lightpath.sky.deltat import timescale
 
 __all__ = ["DE421_PATH", "kernel_label", "kernel_span_jd_tt", "load_kernel", "sun_gcrs_apparent_au"]
 
@@ -61,17 +61,17 @@ def load_kernel(path: str):
     from skyfield.jpllib import SpiceKernel
 
     if not os.path.isfile(path):
-        raise InputError(f"--ephemeris: file {path!r} does not exist (give a JPL .bsp kernel such as de440.bsp)")
+        raise InputError(f"ephemeris_path: file {path!r} does not exist (give a JPL .bsp kernel such as de440.bsp)")
     try:
         kernel = SpiceKernel(path)
     except Exception as exc:  # noqa: BLE001 - any failure to parse is the user's file
-        raise InputError(f"--ephemeris: {path!r} is not a readable JPL SPK kernel ({exc.__class__.__name__})") from None
+        raise InputError(f"ephemeris_path: {path!r} is not a readable JPL SPK kernel ({type(exc).__name__})") from None
     atexit.register(kernel.close)  # the kernel stays open (cached) for the whole run
     pairs = {(s.center, s.target) for s in kernel.segments}
     for need in ((0, 10), (0, 3), (3, 399)):
         if need not in pairs:
             raise InputError(
-                f"--ephemeris: {path!r} lacks segment {need[0]}->{need[1]}; it needs the Sun (0->10) and "
+                f"ephemeris_path: {path!r} lacks segment {need[0]}->{need[1]}; it needs the Sun (0->10) and "
                 "the Earth (0->3, 3->399)"
             )
     return kernel
@@ -117,7 +117,7 @@ def sun_gcrs_apparent_au(kernel, jd_tt: ArrayLike) -> NDArray:
     out = np.full((flat.size, 3), np.nan)
     ok = np.isfinite(flat)
     if np.any(ok):
-        t = _timescale().tt_jd(flat[ok])
+        t = timescale().tt_jd(flat[ok])
         pos = kernel["earth"].at(t).observe(kernel["sun"]).apparent().position.au
         out[ok] = np.asarray(pos).reshape(3, -1).T
     return out.reshape(jd.shape + (3,))

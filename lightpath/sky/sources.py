@@ -236,7 +236,7 @@ def choose_source(jd_tt: ArrayLike, source: str = "auto", ephemeris_path: str | 
             raise InputError(f"source {source!r} is not one of {', '.join(SOURCES)} or a path to a .bsp kernel")
     if source == "vsop87":
         if ephemeris_path is not None:
-            raise InputError("--ephemeris: a kernel file was given together with source 'vsop87'; choose one")
+            raise InputError("ephemeris_path: a kernel file was given together with source 'vsop87'; choose one")
         return SunSource(VSOP87_NAME, "vsop87")
     path = str(ephemeris_path) if ephemeris_path is not None else jpl.DE421_PATH
     kernel = jpl.load_kernel(path)
