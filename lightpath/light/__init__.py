@@ -1,6 +1,7 @@
 """The engine: sky windows by ray casting, Sun-disc sampling, sweeps and light events.
 
-It joins :mod:`lightpath.sky` (Sun directions) and :mod:`lightpath.site` (geometry).
+It joins :mod:`lightpath.sky` (Sun directions) and :mod:`lightpath.scene` (the site geometry of :mod:`lightpath.site`
+with its observer, horizon and air).
 
 Modules, from the top down:
 
