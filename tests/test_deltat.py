@@ -94,9 +94,10 @@ def test_sigma_formula_and_floors():
     for year in (-10000, -3000, -1000, 0, 1000):
         jd = 2451545.0 + (year - 2000) * 365.25
         assert delta_t_sigma_s(jd) == pytest.approx(0.8 * ((year - 1820) / 100.0) ** 2, rel=1e-12)
-    # Espenak & Meeus (2006) uncertainty column (from memory): ±20 s at 1600, ±1 s at 1900.
+    # Espenak & Meeus (2006) uncertainty column (from memory): ±20 s at 1600, ±1 s at 1900, ±0.1 s at 1950.
     assert delta_t_sigma_s(julian_day(1600, 1, 1)) == pytest.approx(20.0, abs=0.5)
     assert delta_t_sigma_s(julian_day(1900, 1, 1)) == pytest.approx(1.0, abs=0.05)
+    assert delta_t_sigma_s(julian_day(1950, 1, 1)) == pytest.approx(0.1, abs=0.001)
     first, last = iers_span_jd_tt()
     assert delta_t_sigma_s(np.array([first, (first + last) / 2, last])) == pytest.approx(IERS_SIGMA_S)
     # Orders of magnitude stated in DESIGN.md: ~30 min at 3000 BC, hours by 10,000 BC.
@@ -112,12 +113,38 @@ def test_sigma_grows_into_the_past():
     assert np.all(np.diff(sigma) < 0)
 
 
-def test_ut_date_uncertain_rule():
-    # 2σ >= 1 h  <=>  0.8 t^2 >= 1800 s  <=>  year <= 1820 - 100*sqrt(2250) ≈ -2923.4.
-    years = np.array([-9999, -3199, -2924, -2922, -2000, 0, 2027])
-    flags = ut_date_uncertain(julian_day(years, 1, 1))
-    assert flags.tolist() == [True, True, True, False, False, False, False]
+def test_ut_date_uncertain_per_event():
+    # The UT date is in doubt only when UT ± 2σ straddles a UT midnight (Meeus 1998 ch. 7: days start at JD + 0.5).
+    # 3200 BC: σ = 0.8 t² s (Morrison & Stephenson 2004) ≈ 2016 s, so 2σ ≈ 67 min.
+    hours = np.array([9 + 4 / 60, 0 + 40 / 60, 23.5, 1.5, 22.5, 12.0])
+    jd_ut = julian_day(-3199, 11, 3 + hours / 24)
+    flags = ut_date_uncertain(tt_from_ut(jd_ut))
+    assert flags.tolist() == [False, True, True, False, False, False]
     assert flags.dtype == bool
+    two_sigma_h = 2 * delta_t_sigma_s(tt_from_ut(jd_ut[0])) / 3600
+    assert 1.0 < two_sigma_h < 1.25
+    # modern dates: 2σ = 0.2 s, only the last fifth of a second before midnight is in doubt
+    jd_modern = julian_day(2000, 1, 1.0) - np.array([0.05, 0.5]) / 86400
+    assert ut_date_uncertain(tt_from_ut(jd_modern)).tolist() == [True, False]
+    assert not ut_date_uncertain(tt_from_ut(jd_ut), delta_t_override_s=0.0).any()  # ΔT fixed by the user
+    assert not ut_date_uncertain(np.nan)
+
+
+def test_sigma_is_continuous_and_small_where_atomic_time_measures_delta_t():
+    # 1955-1972: atomic time (Markowitz et al. 1958) measures ΔT to far better than Espenak & Meeus's (2006)
+    # 0.1 s at 1950; σ stays at 0.1 s up to and through the IERS values.
+    jd = julian_day(np.arange(1950, 1974), 1, 1.0)
+    assert np.all(delta_t_sigma_s(jd) == pytest.approx(0.1))
+    # no jump at the ends of any piece: AD 1200, 1950, both ends of the IERS values
+    first, last = iers_span_jd_tt()
+    for edge in (julian_day(1200, 1, 1.0), julian_day(1950, 1, 1.0), first, last):
+        before, after = delta_t_sigma_s(np.array([edge - 1.0, edge + 1.0]))
+        assert abs(after - before) < 0.01
+    # after the IERS values σ grows smoothly from 0.1 s (our join with the Morrison & Stephenson 2004 growth)
+    future = delta_t_sigma_s(np.linspace(last, julian_day(2200, 1, 1.0), 1000))
+    assert np.all(np.diff(future) >= 0) and future[0] == pytest.approx(0.1)
+    t_end = ((2000 + (last - 2451545.0) / 365.25) - 1820) / 100
+    assert future[-1] == pytest.approx(0.1 + 0.8 * (3.8**2 - t_end**2), abs=0.01)
 
 
 def test_round_trip_tt_ut_over_the_span():

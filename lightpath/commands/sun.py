@@ -240,8 +240,8 @@ def _write_table(chunks, observer: Observer, args: argparse.Namespace) -> None:
         out.write(f"ΔT: {deltat.DELTA_T_SOURCE}\n")
         if uncertain:
             out.write(
-                "note: here 2σ of ΔT is an hour or more, so UT clock times (and UT dates near midnight) are "
-                "uncertain; local apparent time (LAT) is not affected\n"
+                "note: for some rows UT ± 2σ of ΔT straddles a midnight UT, so their UT date is uncertain "
+                "(ut_date_uncertain); local apparent time (LAT) is not affected\n"
             )
 
 
