@@ -36,8 +36,8 @@ from lightpath.light.bruteforce import brute_force_fraction, brute_force_lit_are
 from lightpath.light.events import local_day_number  # noqa: E402
 from lightpath.light.scan import prepare_window, scan_window, sun_for  # noqa: E402
 from lightpath.light.sweep import find_light, sun_enu  # noqa: E402
-from lightpath.site.builders import demo_chamber  # noqa: E402
 from lightpath.scene import demo_scene_path, load_scene  # noqa: E402
+from lightpath.site.builders import demo_chamber  # noqa: E402
 from lightpath.sky.calendar import julian_day  # noqa: E402
 
 

@@ -7,9 +7,9 @@ import sys
 import pytest
 
 from lightpath.cli import main
+from lightpath.scene import demo_scene_path
 from lightpath.site.builders import window_room
 from lightpath.site.export import export_obj
-from lightpath.scene import demo_scene_path
 
 
 def test_text_output_on_a_demo(capsys):

@@ -6,9 +6,9 @@ import numpy as np
 import pytest
 
 from lightpath.errors import InputError
+from lightpath.scene import DEMO_SITES, demo_scene_path, load_scene, standard_pressure_mbar
 from lightpath.site.builders import window_room
 from lightpath.site.export import export_mesh, export_obj
-from lightpath.scene import DEMO_SITES, demo_scene_path, load_scene, standard_pressure_mbar
 
 BASE = """
 [site]

@@ -5,8 +5,8 @@ import math
 import pytest
 
 from lightpath.errors import InputError
-from lightpath.site.builders import Bend, Chamber, Slot, passage_chamber
 from lightpath.scene import load_scene
+from lightpath.site.builders import Bend, Chamber, Slot, passage_chamber
 
 PASSAGE = """
 [site]

@@ -89,9 +89,9 @@ def run_demo(
     """Run the demo into ``out_dir``; returns one summary dict per site (paths, counts, seconds)."""
     from lightpath.commands.year import year_document
     from lightpath.present.scene_report import make_report
+    from lightpath.scene import demo_scene_path, load_scene
     from lightpath.site.report import scene_summary
     from lightpath.site.sampling import sample_target
-    from lightpath.scene import demo_scene_path, load_scene
     from lightpath.sky.calendar import year_label
     from lightpath.sky.sources import SunAccuracyWarning
 

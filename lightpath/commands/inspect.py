@@ -86,9 +86,9 @@ def format_summary(s: dict) -> str:
 
 def run(args: argparse.Namespace) -> int:
     from lightpath.errors import InputError
+    from lightpath.scene import load_scene
     from lightpath.site.report import scene_summary
     from lightpath.site.sampling import sample_target
-    from lightpath.scene import load_scene
 
     if args.samples < 1:
         raise InputError(f"--samples: {args.samples} must be a positive whole number")
