@@ -33,6 +33,7 @@ from lightpath.files import write_text_atomic
 from lightpath.sky.calendar import CALENDARS, calendar_for, format_date, year_from_label, year_label
 from lightpath.sky.deltat import delta_t_sigma_s, ut_from_tt
 from lightpath.sky.divisions import ANCHORS, SCHEMES, Division, divisions
+from lightpath.sky.instants import format_local_apparent, local_apparent_day_number
 from lightpath.sky.observer import Observer
 from lightpath.sky.seasons import (
     QUARTER_NAMES,
@@ -50,7 +51,10 @@ HELP = "quarter days, season lengths and divisions of the year (four definitions
 #: Sun position sources offered on the command line.
 SOURCES = ("auto", "jpl", "vsop87")
 
-_TIME_BASIS = "local mean solar time at the site (UT + longitude/15 h)"
+_TIME_BASIS = (
+    "local mean solar time at the site (UT + longitude/15 h); quarter days: local apparent date beside their "
+    "local apparent time"
+)
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -116,12 +120,12 @@ def year_document(
     names = ["december_solstice", *QUARTER_NAMES]
     jd_tt = np.array([prev_dec] + [float(q.jd_tt(n)) for n in QUARTER_NAMES], dtype=float)
     jd_ut = np.asarray(ut_from_tt(jd_tt), dtype=float)
-    local = jd_ut + observer.longitude_deg / 360.0
     pos = sun_position(jd_tt, observer, source=source)
-    dates = format_date(local, calendar)
-    cals = calendar_for(local, calendar)
     sigma = np.asarray(delta_t_sigma_s(jd_tt), dtype=float)
     lat_h = np.asarray(pos.local_apparent_time_h, dtype=float)
+    day = local_apparent_day_number(jd_ut, observer.longitude_deg, lat_h)  # local apparent date beside LAT
+    dates = format_date(day.astype(float), calendar)
+    cals = calendar_for(day.astype(float), calendar)
     quarter = [
         {
             "name": name,
@@ -129,6 +133,7 @@ def year_document(
             "jd_tt": float(jd_tt[i]),
             "jd_ut": float(jd_ut[i]),
             "date": str(dates[i]),
+            "local_apparent_day": int(day[i]),
             "calendar": str(cals[i]),
             "local_apparent_time_h": float(lat_h[i]),
             "delta_t_sigma_s": float(sigma[i]),
@@ -197,12 +202,9 @@ def _print_text(doc: dict) -> None:
     print(f"Sun: {doc['source']}; horizon: {doc['horizon']}; refraction: {site['refraction'] or 'none'}")
     print("\nQuarter days")
     for q in doc["quarter_days"]:
-        lat_h = q["local_apparent_time_h"]
-        hh, mm = divmod(round(lat_h * 60.0) % 1440, 60)
+        date, clock = format_local_apparent(q["local_apparent_day"], q["local_apparent_time_h"], q["calendar"])
         name = q["name"] if q["of_year"] == doc["year"] else f"{q['name']} of {year_label(q['of_year'])}"
-        print(
-            f"  {name:<30} {q['date']}  {hh:02d}:{mm:02d} LAT  JDE {q['jd_tt']:.5f}  (ΔT ±{q['delta_t_sigma_s']:.0f} s)"
-        )
+        print(f"  {name:<30} {date}  {clock} LAT  JDE {q['jd_tt']:.5f}  (ΔT ±{q['delta_t_sigma_s']:.0f} s)")
     h, s = doc["half_years"], doc["seasons_days"]
     print(
         f"\nHalf-years: December→June {_fmt(h['december_to_june_days'], '.2f')} d, "

@@ -36,6 +36,7 @@ from lightpath.present.tables import division_label
 from lightpath.present.visits import VISIT_COLUMNS, visit_entries, visit_rows
 from lightpath.present.window_figures import light_patch_figure, sky_window_figure, window_outlines
 from lightpath.sky.calendar import year_label
+from lightpath.sky.instants import format_time_of_day
 from lightpath.study.visit import VisitPlan, local_day_start, visit_scene
 
 if TYPE_CHECKING:
@@ -143,7 +144,7 @@ def patch_frames(
     pos, dirs = sun_enu(sun_for(observer, source), tt_from_ut(jd_ut))
     lit = meets(disc_fraction(window, dirs, edge=CRITERION_EDGE[criterion]), criterion)
     hours = np.mod(np.asarray(pos.local_apparent_time_h, dtype=float), 24.0)
-    labels = [f"{int(h):02d}:{int(round((h % 1) * 60)) % 60:02d} LAT" for h in hours]
+    labels = [f"{clock} LAT" for clock in np.atleast_1d(format_time_of_day(hours / 24.0))]  # to the nearest minute
     return lit, labels
 
 

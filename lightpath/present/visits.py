@@ -41,10 +41,15 @@ VISIT_COLUMNS: tuple[tuple[str, str], ...] = (
 )
 
 
+def _to_minute(jd_ut: float) -> float:
+    """A Julian date rounded to the nearest minute (08:54:55 → 08:55, 23:59:40 → 00:00 of the next day)."""
+    return round(jd_ut * 1440.0) / 1440.0
+
+
 def _clock(jd_ut: float, zone) -> str | None:
     if not math.isfinite(jd_ut):
         return None
-    return civil_datetime(jd_ut, zone).strftime("%H:%M")
+    return civil_datetime(_to_minute(jd_ut), zone).strftime("%H:%M")
 
 
 def visit_row(visit: VisitEvent, zone_name: str | None) -> dict[str, Any]:
@@ -53,7 +58,7 @@ def visit_row(visit: VisitEvent, zone_name: str | None) -> dict[str, Any]:
     peak = civil_datetime(visit.peak_jd_ut, zone)
     e = visit.event
     return {
-        "date": peak.date().isoformat(),
+        "date": civil_datetime(_to_minute(visit.peak_jd_ut), zone).date().isoformat(),  # the date of "peak"
         "sunrise": _clock(visit.sunrise_jd_ut, zone),
         "start": _clock(visit.start_jd_ut, zone),
         "peak": _clock(visit.peak_jd_ut, zone),

@@ -50,6 +50,7 @@ from lightpath.sky.calendar import (
     _format_ymd,
     calendar_date,
     calendar_for,
+    format_date,
     julian_day,
     validate_date,
     year_from_label,
@@ -59,7 +60,9 @@ __all__ = [
     "ACCEPTED_FORMS",
     "ParsedInstant",
     "format_instant",
+    "format_local_apparent",
     "format_time_of_day",
+    "local_apparent_day_number",
     "parse_instant",
     "resolve_instant",
     "tt_from_lat",
@@ -239,6 +242,52 @@ def format_instant(jd: ArrayLike, calendar: Calendar = "auto", seconds: bool = T
     if x.ndim == 0:
         return flat[0]
     return np.array(flat).reshape(x.shape)
+
+
+def local_apparent_day_number(jd_ut: ArrayLike, longitude_deg: ArrayLike, local_apparent_time_h: ArrayLike) -> NDArray:
+    """Integer Julian day number of the local apparent day holding each instant (its date is that of D at noon).
+
+    The local apparent day starts at local apparent midnight: the instant whose local
+    apparent time is 0 h.  With ``m = jd_ut + longitude/360`` (local mean time) and the
+    instant's local apparent time t, D − 0.5 + t/24 = m + E where the equation of time E
+    is under 17 min, so D = round(m + 0.5 − t/24).  The local mean date can differ: an
+    instant at 00:02 LAT is 23:50 local mean time of the day before when E = +12 min.
+
+    >>> int(local_apparent_day_number(2461671.5 + 5.9 / 24, -91.7, 0.033))  # 00:02 LAT, 05:54 UT at 91.7° W
+    2461672
+
+    References
+    ----------
+    Meeus (1998), ch. 28 (equation of time: apparent = mean solar time + E).
+    """
+    local = np.asarray(jd_ut, float) + np.asarray(longitude_deg, float) / 360.0 + 0.5
+    out = np.rint(local - np.asarray(local_apparent_time_h, float) / 24.0).astype(np.int64)
+    return out[()] if out.ndim == 0 else out
+
+
+def format_local_apparent(
+    day_number: ArrayLike, local_apparent_time_h: ArrayLike, calendar: Calendar = "auto", seconds: bool = False
+):
+    """Local apparent date and clock (``"YYYY-MM-DD"``, ``"HH:MM"``), the clock rounded to the nearest minute.
+
+    A time that rounds up to 24:00 is shown as 00:00 of the next day, so the date and the
+    clock always name the same rounded instant (23:59:40 LAT on the 22nd → 2027-09-23 00:00).
+    ``day_number`` comes from :func:`local_apparent_day_number`.  Returns two ``str`` for
+    scalars and two arrays of ``str`` otherwise.
+
+    >>> format_local_apparent(2461671, 23 + 59 / 60 + 40 / 3600, "gregorian")
+    ('2027-09-23', '00:00')
+    >>> format_local_apparent(2461671, 8 + 54 / 60 + 55 / 3600, "gregorian")
+    ('2027-09-22', '08:55')
+    """
+    d = np.asarray(day_number, dtype=np.int64)
+    h = np.asarray(local_apparent_time_h, dtype=np.float64)
+    unit = 86400 if seconds else 1440
+    units = np.round(np.nan_to_num(h) / 24.0 * unit).astype(np.int64)
+    day = d + units // unit  # 24:00 (or 23:59:59.5 to the second) belongs to the next day
+    clock = format_time_of_day(np.where(np.isfinite(h), (units % unit) / unit, np.nan), seconds=seconds)
+    dates = format_date(day.astype(np.float64), calendar)
+    return dates, clock
 
 
 def _wrap_hours(h: NDArray) -> NDArray:
