@@ -8,13 +8,13 @@ import numpy as np
 import pytest
 
 from lightpath.errors import InputError
+from lightpath.light.track import raise_altitude
 from lightpath.study.uncertainty import (
     NULL_STREAM,
     Tolerances,
     make_draws,
     nominal_draw,
     parse_epoch,
-    raise_altitude,
     rotation_about_up,
     rotation_from_vector,
     shift_rotation_vector,

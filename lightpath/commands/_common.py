@@ -8,19 +8,27 @@ import json
 import math
 import sys
 from collections.abc import Iterator
+from pathlib import Path
 from typing import Any
 
 import numpy as np
 
 from lightpath.errors import InputError
 
+#: Where sky windows are cached unless --cache or --no-cache says otherwise.
+DEFAULT_CACHE = Path.home() / ".cache" / "lightpath"
+
 __all__ = [
+    "DEFAULT_CACHE",
     "add_air_options",
+    "add_engine_options",
+    "engine_options",
     "add_output_options",
     "observer_from_options",
     "parse_site",
     "print_json",
     "progress_bar",
+    "settings_line",
     "to_jsonable",
 ]
 
@@ -136,3 +144,74 @@ def progress_bar(description: str, total: int, quiet: bool = False) -> Iterator[
     with Progress(*columns, console=console, transient=True) as progress:
         task = progress.add_task(description, total=total)
         yield lambda n=1: progress.advance(task, n)
+
+
+def add_engine_options(parser: argparse.ArgumentParser, *, divisions: bool = True) -> None:
+    """The engine's settings as options, the same names and defaults in every command.
+
+    Defaults come from :class:`lightpath.light.options.WindowOptions` and
+    :class:`lightpath.light.options.ScanOptions` (written there once).
+    """
+    from lightpath.light.disc import CRITERIA
+    from lightpath.light.options import ScanOptions, WindowOptions
+    from lightpath.sky.divisions import SCHEMES
+
+    w, o = WindowOptions(), ScanOptions()
+    if divisions:
+        parser.add_argument("--parts", type=int, default=o.parts, metavar="N",
+                            help=f"divisions of the year, 2..64 (default {o.parts})")  # fmt: skip
+        parser.add_argument("--scheme", choices=SCHEMES, default=o.scheme,
+                            help=f"how the year is divided (default {o.scheme})")  # fmt: skip
+    parser.add_argument("--criterion", choices=tuple(CRITERIA), default=o.criterion,
+                        help=f"when a target sample is lit (default {o.criterion})")  # fmt: skip
+    parser.add_argument("--samples", type=int, default=w.samples, metavar="K",
+                        help=f"target samples, 1..1000000 (default {w.samples})")  # fmt: skip
+    parser.add_argument("--seed", type=int, default=w.seed, help=f"seed of the target sampling (default {w.seed})")
+    parser.add_argument("--resolution", type=float, default=w.resolution_deg, metavar="DEG",
+                        help=f"sky window cell, 0.01..1 degrees (default {w.resolution_deg:g})")  # fmt: skip
+    parser.add_argument("--source", choices=("auto", "jpl", "vsop87"), default=o.source,
+                        help="Sun positions: JPL DE421 (1900-2050) or VSOP87 (default auto)")  # fmt: skip
+    parser.add_argument("--delta-t", type=float, default=None, metavar="S", help="a fixed ΔT in seconds")
+    parser.add_argument("--calendar", choices=("auto", "julian", "gregorian"), default=o.calendar,
+                        help="calendar of the dates shown (default: Julian before 1582-10-15)")  # fmt: skip
+    cache = parser.add_mutually_exclusive_group()
+    cache.add_argument("--cache", metavar="DIR", default=None, help=f"window cache folder (default {DEFAULT_CACHE})")
+    cache.add_argument("--no-cache", action="store_true", help="do not read or write a window cache")
+
+
+def engine_options(args: argparse.Namespace):
+    """(WindowOptions, ScanOptions) from the options of :func:`add_engine_options`, checked.
+
+    A bad value is reported with the option's name.
+    """
+    from dataclasses import replace
+
+    from lightpath.light.options import ScanOptions, WindowOptions
+
+    cache_dir = None if args.no_cache else Path(args.cache) if args.cache else DEFAULT_CACHE
+    if cache_dir is not None and cache_dir.exists() and not cache_dir.is_dir():
+        raise InputError(f"--cache: {cache_dir} is a file, not a folder")
+    if args.delta_t is not None and not (math.isfinite(args.delta_t) and abs(args.delta_t) <= 1e6):
+        raise InputError("--delta-t: not a number of seconds in -1000000..1000000")
+    flags = {"samples": "--samples", "seed": "--seed", "resolution_deg": "--resolution", "parts": "--parts",
+             "delta_t_s": "--delta-t"}  # fmt: skip
+    try:
+        w = WindowOptions(int(args.samples), int(args.seed), float(args.resolution), cache_dir).check()
+        o = ScanOptions(criterion=args.criterion, source=args.source, delta_t_s=args.delta_t, calendar=args.calendar)
+        if hasattr(args, "parts"):
+            o = replace(o, scheme=args.scheme, parts=int(args.parts))
+        o.check()
+    except InputError as exc:
+        name, _, rest = str(exc).partition(":")
+        raise InputError(f"{flags.get(name, name)}:{rest}") from None
+    return w, o
+
+
+def settings_line(settings) -> str:
+    """The engine's settings in one line, printed beside every result (samples and cell size first)."""
+    dt = "model" if settings.delta_t_s is None else f"{settings.delta_t_s:g} s"
+    return (
+        f"{settings.samples} target samples, {settings.resolution_deg:g}° window cells, criterion "
+        f"{settings.criterion}, {settings.parts} divisions ({settings.scheme}), Sun {settings.source}, ΔT {dt}; "
+        f"days are {settings.day_convention}s"
+    )

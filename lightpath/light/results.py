@@ -1,9 +1,10 @@
-"""What the engine returns: plain dataclasses that the reports and studies present.
+"""What the engine returns: plain dataclasses of numbers that the studies, reports and commands present.
 
-Dates are written with astronomical year numbering (``"-3199-11-03"`` is
-3200 BC November 3) in the calendar named beside them; ``date`` is the day at
-the site in local apparent solar time, which stays meaningful when ΔT is
-uncertain by hours.  Instants are Julian dates: ``_jd_ut`` (UT1) or ``_jd_tt``.
+Days are **local apparent days** at the site, as integer Julian day numbers (the day whose noon
+is local apparent noon; :func:`lightpath.light.runs.local_day_number`); ``calendar`` names the
+calendar a date made from them is shown in.  Instants are Julian dates: ``_jd_ut`` (UT1) or
+``_jd_tt``; times of day are hours of local apparent solar time (``_local_apparent_h``, 0..24).
+Nothing here is a formatted string: :mod:`lightpath.present` makes the words.
 """
 
 from __future__ import annotations
@@ -17,43 +18,49 @@ __all__ = ["DivisionLight", "LightEvent", "LightMap", "ScanResult", "ScanSetting
 
 @dataclass(frozen=True)
 class LightEvent:
-    """One interval during which sunlight reaches the target (by the chosen criterion)."""
+    """One interval during which sunlight reaches the target (by the chosen criterion).
 
-    date: str  # day at the site, local apparent solar time, astronomical year numbering
-    calendar: str  # "julian" or "gregorian"
+    ``division`` is the division of the year that the event's light run belongs to
+    (:func:`lightpath.light.runs.assign_runs`) and ``offset_days`` the event's day minus that division's day.
+    """
+
+    day: int  # local apparent day at the site (Julian day number)
+    calendar: str  # "julian" or "gregorian": the calendar the day is shown in
     start_jd_ut: float
     end_jd_ut: float
     peak_jd_ut: float
-    start_local_apparent: str  # "HH:MM" local apparent solar time
-    end_local_apparent: str
+    start_local_apparent_h: float  # local apparent solar time, hours 0..24
+    end_local_apparent_h: float
+    peak_local_apparent_h: float
     duration_min: float
     peak_area_m2: float  # lit target area at the peak, m²
     peak_fraction: float  # lit area / target area at the peak, 0..1
     sun_azimuth_deg: float  # at the peak, from true north clockwise
     sun_altitude_deg: float  # at the peak, apparent (refracted)
-    nearest_division: str  # name of the nearest division of the year
-    offset_days: float  # event date minus that division's instant, days (negative = before)
+    division: str  # the division the light run belongs to
+    division_day: int  # that division's local apparent day
+    offset_days: int  # day − division_day (negative = before)
     delta_t_s: float
     delta_t_sigma_s: float
-    start_civil: str | None = None  # ISO 8601 with UTC offset in the site's zone (modern dates only)
-    end_civil: str | None = None
-    ut_date_uncertain: bool = False  # ΔT's σ could move the UT calendar date
+    ut_date_uncertain: bool = False  # ΔT's σ (±2σ) could move the UT calendar date of this event
 
 
 @dataclass(frozen=True)
 class DivisionLight:
-    """The date range around one division of the year during which light reaches the target."""
+    """The light runs around one division of the year (days are local apparent day numbers)."""
 
     scheme: str
     index: int
     name: str
-    jd_tt: float
-    date: str
-    first_date: str | None  # None when no light near this division
-    last_date: str | None
-    days: int  # days with light in the run of days around the division
-    first_offset_days: float | None = None
-    last_offset_days: float | None = None
+    jd_tt: float  # the division's instant
+    day: int  # its local apparent day
+    calendar: str
+    first_day: int | None  # first lit day of its runs (None when no light belongs to it)
+    last_day: int | None
+    days: int  # lit days in its runs
+    first_offset_days: int | None = None  # first_day − day
+    last_offset_days: int | None = None
+    nearest_offset_days: int | None = None  # the lit day nearest the division's day, minus day
 
 
 @dataclass(frozen=True)
@@ -91,10 +98,12 @@ class ScanSettings:
     parts: int
     samples: int
     seed: int
-    window_resolution_deg: float
+    resolution_deg: float  # the sky window's cell size, degrees
     refraction: str | None
     source: str
-    delta_t_override_s: float | None = None
+    delta_t_s: float | None = None  # a fixed ΔT, or None for the model
+    step_min: float = 1.0
+    day_convention: str = "local apparent day"
 
 
 @dataclass(frozen=True)

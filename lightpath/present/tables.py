@@ -7,9 +7,10 @@ rounded numbers.  The same rows feed the CSV files, the JSON file and the HTML
 report, so they always agree.
 
 >>> from lightpath.light.results import DivisionLight
->>> d = DivisionLight("solar", 0, "December solstice", 2461030.1, "2026-12-21", "2026-12-18", "2026-12-24", 7)
->>> division_row(d, 2026)["days_lit"]
-7
+>>> d = DivisionLight("longitude", 0, "december_solstice", 2461031.1, 2461031, "gregorian", 2461028, 2461034, 7, -3, 3)
+>>> row = division_row(d, 2027)
+>>> row["date"], row["first_date"], row["days_lit"], row["first_offset_days"]
+('2026-12-21', '2026-12-18', 7, -3)
 """
 
 from __future__ import annotations
@@ -25,13 +26,17 @@ from typing import Any
 import numpy as np
 
 from lightpath.light.results import DivisionLight, LightEvent, ScanResult
-from lightpath.sky.calendar import calendar_date, year_label
+from lightpath.sky.calendar import calendar_date, format_date, year_label
+from lightpath.sky.instants import format_time_of_day
 
 __all__ = [
     "DIVISION_COLUMNS",
     "EVENT_COLUMNS",
     "EVENT_HTML_COLUMNS",
+    "clock_hm",
+    "day_date",
     "division_label",
+    "division_offset_label",
     "division_row",
     "division_rows",
     "event_row",
@@ -47,6 +52,7 @@ EVENT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("year", "Year"),
     ("date", "Date (local apparent day)"),
     ("calendar", "Calendar"),
+    ("division_offset", "Day in the year's divisions"),
     ("start_local_apparent", "Start (local apparent time)"),
     ("end_local_apparent", "End (local apparent time)"),
     ("duration_min", "Duration (min)"),
@@ -59,7 +65,7 @@ EVENT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("peak_fraction", "Peak lit fraction"),
     ("sun_azimuth_deg", "Sun azimuth at peak (°)"),
     ("sun_altitude_deg", "Sun apparent altitude at peak (°)"),
-    ("nearest_division", "Nearest division"),
+    ("division", "Division of its light run"),
     ("offset_days", "Days from division"),
     ("delta_t_s", "ΔT (s)"),
     ("delta_t_sigma_s", "ΔT σ (s)"),
@@ -83,6 +89,7 @@ DIVISION_COLUMNS: tuple[tuple[str, str], ...] = (
     ("days_lit", "Days with light"),
     ("first_offset_days", "First day − division (days)"),
     ("last_offset_days", "Last day − division (days)"),
+    ("nearest_offset_days", "Nearest lit day − division (days)"),
 )
 
 
@@ -103,6 +110,40 @@ def division_label(name: str) -> str:
     if len(words) == 2 and words[1] in ("solstice", "equinox"):
         return f"{words[0].capitalize()} {words[1]}"
     return " ".join(words)
+
+
+def day_date(day: int | None, calendar: str = "auto") -> str | None:
+    """A local apparent day (Julian day number) as ``YYYY-MM-DD`` in astronomical numbering, or None.
+
+    >>> day_date(2451545), day_date(1507900, "julian")
+    ('2000-01-01', '-0584-05-28')
+    """
+    if day is None:
+        return None
+    return str(format_date(float(day), calendar if calendar in ("julian", "gregorian") else "auto"))
+
+
+def clock_hm(hours: float) -> str:
+    """Hours of a day (0..24) as ``HH:MM``, rounded to the nearest minute.
+
+    >>> clock_hm(8.915), clock_hm(23.999)
+    ('08:55', '00:00')
+    """
+    return str(format_time_of_day(float(hours) / 24.0))
+
+
+def division_offset_label(name: str, offset_days: int | None) -> str:
+    """A day named by its division and offset: ``"December solstice +3"``.
+
+    >>> division_offset_label("december_solstice", -2), division_offset_label("march_equinox", 0)
+    ('December solstice −2', 'March equinox')
+    """
+    if offset_days is None:
+        return division_label(name)
+    if offset_days == 0:
+        return division_label(name)
+    sign = "+" if offset_days > 0 else "−"
+    return f"{division_label(name)} {sign}{abs(int(offset_days))}"
 
 
 def ut_label(jd_ut: float, calendar: str = "auto") -> str:
@@ -130,27 +171,34 @@ def _round(value: float | None, digits: int) -> float | None:
     return round(value, digits) if math.isfinite(value) else None
 
 
-def event_row(event: LightEvent, year: int) -> dict[str, Any]:
-    """One event as a flat dict of plain values (the keys of :data:`EVENT_COLUMNS`)."""
+def event_row(event: LightEvent, year: int, timezone: str | None = None) -> dict[str, Any]:
+    """One event as a flat dict of plain values (the keys of :data:`EVENT_COLUMNS`).
+
+    ``timezone`` (IANA) gives civil times for modern dates (:func:`lightpath.present.civil.civil_iso`).
+    """
+    from lightpath.present.civil import civil_iso
+
     calendar = event.calendar if event.calendar in ("julian", "gregorian") else "auto"
+    start_civil, end_civil = civil_iso([event.start_jd_ut, event.end_jd_ut], timezone)
     return {
         "year": int(year),
-        "date": event.date,
+        "date": day_date(event.day, calendar),
         "calendar": event.calendar,
-        "start_local_apparent": event.start_local_apparent,
-        "end_local_apparent": event.end_local_apparent,
+        "division_offset": division_offset_label(event.division, event.offset_days),
+        "start_local_apparent": clock_hm(event.start_local_apparent_h),
+        "end_local_apparent": clock_hm(event.end_local_apparent_h),
         "duration_min": _round(event.duration_min, 1),
         "start_ut": ut_label(event.start_jd_ut, calendar),
         "peak_ut": ut_label(event.peak_jd_ut, calendar),
         "end_ut": ut_label(event.end_jd_ut, calendar),
-        "start_civil": event.start_civil,
-        "end_civil": event.end_civil,
+        "start_civil": start_civil,
+        "end_civil": end_civil,
         "peak_area_m2": _round(event.peak_area_m2, 4),
         "peak_fraction": _round(event.peak_fraction, 3),
         "sun_azimuth_deg": _round(event.sun_azimuth_deg, 2),
         "sun_altitude_deg": _round(event.sun_altitude_deg, 2),
-        "nearest_division": event.nearest_division,
-        "offset_days": _round(event.offset_days, 1),
+        "division": event.division,
+        "offset_days": int(event.offset_days),
         "delta_t_s": _round(event.delta_t_s, 0),
         "delta_t_sigma_s": _round(event.delta_t_sigma_s, 0),
         "ut_date_uncertain": bool(event.ut_date_uncertain),
@@ -164,18 +212,19 @@ def division_row(division: DivisionLight, year: int) -> dict[str, Any]:
         "scheme": division.scheme,
         "index": int(division.index),
         "name": division.name,
-        "date": division.date,
-        "first_date": division.first_date,
-        "last_date": division.last_date,
+        "date": day_date(division.day, division.calendar),
+        "first_date": day_date(division.first_day, division.calendar),
+        "last_date": day_date(division.last_day, division.calendar),
         "days_lit": int(division.days),
-        "first_offset_days": _round(division.first_offset_days, 1),
-        "last_offset_days": _round(division.last_offset_days, 1),
+        "first_offset_days": division.first_offset_days,
+        "last_offset_days": division.last_offset_days,
+        "nearest_offset_days": division.nearest_offset_days,
     }
 
 
-def event_rows(scan: ScanResult) -> list[dict[str, Any]]:
-    """Every event of every year of a scan, in time order."""
-    rows = [(e.start_jd_ut, event_row(e, y.year)) for y in scan.years for e in y.events]
+def event_rows(scan: ScanResult, timezone: str | None = None) -> list[dict[str, Any]]:
+    """Every event of every year of a scan, in time order (civil times in ``timezone`` for modern dates)."""
+    rows = [(e.start_jd_ut, event_row(e, y.year, timezone)) for y in scan.years for e in y.events]
     return [row for _, row in sorted(rows, key=lambda pair: pair[0])]
 
 
@@ -226,14 +275,14 @@ def rows_to_html(
     return f"<table{attrs}>{cap}<thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
 
 
-def tables_document(scan: ScanResult) -> dict[str, Any]:
+def tables_document(scan: ScanResult, timezone: str | None = None) -> dict[str, Any]:
     """The tables and the settings they came from, as one JSON-ready dict."""
     return {
         "scene": scan.scene,
         "years": [{"year": y.year, "label": year_label(y.year), "calendar": y.calendar} for y in scan.years],
         "settings": dataclasses.asdict(scan.settings),
         "target_area_m2": _round(scan.target_area_m2, 6),
-        "events": event_rows(scan),
+        "events": event_rows(scan, timezone),
         "divisions": division_rows(scan),
         "notes": list(scan.notes) + [n for y in scan.years for n in y.notes],
     }

@@ -23,7 +23,7 @@ import numpy as np
 from lightpath.errors import InputError
 from lightpath.site.meshes import NAME_KINDS, LabeledMesh
 
-__all__ = ["select_by_name", "faces_in_box", "box_mesh", "polygon_mesh", "submesh", "face_areas_m2"]
+__all__ = ["select_by_name", "faces_in_box", "box_mesh", "polygon_mesh", "submesh", "face_areas_m2", "area_centroid_m"]
 
 
 def select_by_name(mesh: LabeledMesh, wanted: dict[str, list[str]], table: str) -> np.ndarray:
@@ -126,3 +126,9 @@ def polygon_mesh(corners_m, *, key: str = "polygon_m", planar_tolerance_m: float
     if off_plane.max() > planar_tolerance_m:
         raise InputError(f"{key}: corners are {off_plane.max():.3f} m off a plane (more than {planar_tolerance_m} m)")
     return trimesh.Trimesh(p, faces, process=False)
+
+
+def area_centroid_m(mesh) -> np.ndarray:
+    """Area-weighted centre of a surface mesh's triangles (site-frame metres); also right for an open, flat pane."""
+    weights = np.asarray(mesh.area_faces, dtype=float)
+    return (np.asarray(mesh.triangles_center, dtype=float) * weights[:, None]).sum(axis=0) / weights.sum()

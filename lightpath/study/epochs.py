@@ -37,9 +37,8 @@ import numpy as np
 from numpy.typing import NDArray
 
 from lightpath.errors import InputError
-from lightpath.sky.calendar import year_label
 from lightpath.study.execution import run_draws
-from lightpath.study.light_days import UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
+from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.uncertainty import Tolerances, make_draws, nominal_draw
 
 __all__ = ["EpochRow", "EpochsResult", "alignment_epochs", "drift_days_per_century", "spans_of"]
@@ -53,9 +52,8 @@ class EpochRow:
     """The run of light days around the division in one year (days from the division's day)."""
 
     year: int
-    label: str  # e.g. "3200 BC"
-    division_date: str  # local mean date of the division, astronomical years
-    calendar: str
+    division_day: int  # local apparent day of the division (Julian day number)
+    calendar: str  # the calendar its date is shown in
     nearest_day: float | None  # surveyed geometry, nominal sky
     first_day: float | None
     last_day: float | None
@@ -74,7 +72,6 @@ class EpochsResult:
     scheme: str
     parts: int
     criterion: str
-    span_days: int
     from_year: int
     to_year: int
     step_years: int
@@ -127,7 +124,7 @@ def _maybe(x: float) -> float | None:
 
 
 def _span_dicts(spans: list[tuple[int, int]]) -> list[dict[str, Any]]:
-    return [{"from_year": a, "to_year": b, "from": year_label(a), "to": year_label(b)} for a, b in spans]
+    return [{"from_year": a, "to_year": b} for a, b in spans]
 
 
 def alignment_epochs(
@@ -160,13 +157,13 @@ def alignment_epochs(
     seed, workers, client, progress : as in :func:`lightpath.study.framing.framing_test`.
     """
     if isinstance(step_years, bool) or not isinstance(step_years, int) or step_years < 1:
-        raise InputError(f"--step: {step_years!r} is not a whole number of years ≥ 1")
+        raise InputError(f"step_years: {step_years!r} is not a whole number of years ≥ 1")
     if to_year < from_year:
-        raise InputError(f"--to: {to_year} is before --from {from_year}")
+        raise InputError(f"to_year: {to_year} is before from_year {from_year}")
+    if (int(to_year) - int(from_year)) // step_years + 1 > MAX_YEARS:
+        raise InputError(f"step_years: more than {MAX_YEARS} years asked for (use a larger step)")
     years = list(range(int(from_year), int(to_year) + 1, step_years))
-    if len(years) > MAX_YEARS:
-        raise InputError(f"--step: {len(years)} years asked for; at most {MAX_YEARS} (use a larger --step)")
-    light = replace(light, names=(division,), _cache={})
+    light = replace(light, names=(division,), _cache=dict(light._cache))
     tol = tolerances if tolerances is not None else Tolerances()
     tol = Tolerances(**{**tol.__dict__, "epoch_years": 0.0})
     obs = light.observer
@@ -181,7 +178,7 @@ def alignment_epochs(
                             temperature_c=obs.temperature_c, pressure_mbar=obs.pressure_mbar)  # fmt: skip
     results = np.array(run_draws(light, tasks, workers=workers, client=client, progress=progress))
     results = results.reshape(len(years), 1 + draws, 3)  # (years, nominal + draws, [nearest, first, last])
-    from lightpath.sky.divisions import divisions as all_divisions
+    from lightpath.sky.calendar import calendar_for
 
     rows = []
     for i, y in enumerate(years):
@@ -189,13 +186,12 @@ def alignment_epochs(
         inside = bool(np.isfinite(nominal[1]) and nominal[1] <= 0 <= nominal[2])
         with np.errstate(invalid="ignore"):
             inside_draws = (sample[:, 1] <= 0) & (sample[:, 2] >= 0)
-        info = {d.name: d for d in all_divisions(y, light.scheme, light.parts, observer=obs, source=light.source)}
+        day = int(light.division_days(y)[0])
         rows.append(
             EpochRow(
                 year=y,
-                label=year_label(y),
-                division_date=info[division].date,
-                calendar=info[division].calendar,
+                division_day=day,
+                calendar=str(calendar_for(float(day), light.options.calendar)),
                 nearest_day=_maybe(nominal[0]),
                 first_day=_maybe(nominal[1]),
                 last_day=_maybe(nominal[2]),
@@ -207,22 +203,17 @@ def alignment_epochs(
         )
     yrs = np.array(years)
     notes = [
-        f"days are local mean solar days; day 0 is the day of {division}; the search covers ±{light.span_days} days",
+        DAY_NOTE,
         "draws use common random numbers: draw i has the same survey errors in every year",
     ]
     if years[0] < VERIFIED_FROM_YEAR:
         notes.append(UNVERIFIED_NOTE)
-    if any(r.first_day is not None and r.first_day <= -light.span_days for r in rows) or any(
-        r.last_day is not None and r.last_day >= light.span_days for r in rows
-    ):
-        notes.append(f"some runs reach the edge of the ±{light.span_days}-day search: their ends are cut there")
     return EpochsResult(
         scene=scene_label,
         division=division,
         scheme=light.scheme,
         parts=int(light.parts),
         criterion=light.criterion,
-        span_days=int(light.span_days),
         from_year=int(from_year),
         to_year=int(to_year),
         step_years=int(step_years),

@@ -42,8 +42,9 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from lightpath.errors import InputError
+from lightpath.light.year import MARGIN_DAYS
 from lightpath.study.execution import run_draws
-from lightpath.study.light_days import UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
+from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.null_model import NULL_MODEL_NAME, monte_carlo_p_value, null_azimuths, side_for, sun_arc
 from lightpath.study.uncertainty import Draw, Tolerances, make_draws, nominal_draw, rotation_about_up
 
@@ -143,8 +144,8 @@ class DivisionFraming:
     """The framing test for one division (offsets in days from the division's local day)."""
 
     name: str
-    date: str  # the division's day at the nominal epoch (local mean time, calendar below)
-    calendar: str
+    day: int  # the division's local apparent day at the nominal epoch (Julian day number)
+    calendar: str  # the calendar its date is shown in
     observed_nearest_day: float | None  # nominal geometry and sky: nearest lit day (None: no light in the span)
     observed_first_day: float | None
     observed_last_day: float | None
@@ -173,7 +174,6 @@ class FramingResult:
     parts: int
     criterion: str
     within_days: int
-    span_days: int
     draws: int
     null_draws: int
     seed: int
@@ -235,8 +235,8 @@ def framing_test(
     workers, client : where draws run (:func:`lightpath.study.execution.run_draws`).
     progress : ``progress(n)`` after every n finished draws.
     """
-    if isinstance(within_days, bool) or not isinstance(within_days, int) or not 0 <= within_days <= light.span_days:
-        raise InputError(f"--within: {within_days!r} is not a whole number of days in 0..{light.span_days} (the span)")
+    if isinstance(within_days, bool) or not isinstance(within_days, int) or not 0 <= within_days <= MARGIN_DAYS:
+        raise InputError(f"within_days: {within_days!r} is not a whole number of days in 0..{MARGIN_DAYS}")
     tol = tolerances if tolerances is not None else Tolerances()
     if epoch_sigma_years is not None:
         tol = Tolerances(**{**tol.__dict__, "epoch_years": float(epoch_sigma_years)})
@@ -267,9 +267,9 @@ def framing_test(
     null_any_close = null_close.min(axis=1) if null_draws else np.zeros(0)
     obs_close = _closeness(observed)
 
-    from lightpath.sky.divisions import divisions as all_divisions
+    from lightpath.sky.calendar import calendar_for
 
-    info = {d.name: d for d in all_divisions(year, light.scheme, light.parts, observer=obs, source=light.source)}
+    days = light.division_days(year)
     out = []
     for i, name in enumerate(names):
         k = int(framed[:, i].sum())
@@ -282,8 +282,8 @@ def framing_test(
         out.append(
             DivisionFraming(
                 name=name,
-                date=info[name].date,
-                calendar=info[name].calendar,
+                day=int(days[i]),
+                calendar=str(calendar_for(float(days[i]), light.options.calendar)),
                 observed_nearest_day=_none(observed[i, 0]),
                 observed_first_day=_none(observed[i, 1]),
                 observed_last_day=_none(observed[i, 2]),
@@ -304,13 +304,13 @@ def framing_test(
     notes = [
         "tolerances are one-sigma Gaussian spreads; the survey draws and the null orientations use "
         "independent streams of the seed",
-        "days are local mean solar days at the site; day 0 is the day of the division's instant",
+        DAY_NOTE,
         "null orientations keep the nominal sky and survey (no tolerances)",
     ]
     if min([year, *(d.year for d in survey)]) < VERIFIED_FROM_YEAR:
         notes.append(UNVERIFIED_NOTE)
     if obs_close.size and not np.isfinite(obs_close).all():
-        notes.append(f"no light within ±{light.span_days} days of some divisions for the surveyed geometry")
+        notes.append("no light run belongs to some divisions for the surveyed geometry")
     return FramingResult(
         scene=scene_label,
         epoch_year=int(year),
@@ -319,7 +319,6 @@ def framing_test(
         parts=int(light.parts),
         criterion=light.criterion,
         within_days=int(within_days),
-        span_days=int(light.span_days),
         draws=int(draws),
         null_draws=int(null_draws),
         seed=int(seed),

@@ -60,7 +60,6 @@ __all__ = [
     "make_draws",
     "nominal_draw",
     "parse_epoch",
-    "raise_altitude",
     "rotation_about_up",
     "rotation_from_vector",
     "shift_rotation_vector",
@@ -394,30 +393,3 @@ def nominal_draw(year: int, temperature_c: float = 10.0, pressure_mbar: float = 
     z = np.zeros(len(_NORMALS))
     return _draw_from_normals(index, z, Tolerances.zero(), year, None, None, temperature_c, pressure_mbar)
 
-
-def raise_altitude(sun_enu: ArrayLike, offset_deg: float | ArrayLike, *, taper: bool = True) -> NDArray:
-    """Sun directions (M, 3) with their altitude raised by ``offset_deg`` (degrees).
-
-    With ``taper`` the offset is scaled by Bennett's refraction at that altitude over its
-    value at the horizon, ``R(h)/R(0)``, so an anomalous refraction near the horizon fades
-    higher up (R ∝ cot(h + 7.31/(h + 4.4)), Bennett 1982).  Azimuths are unchanged.
-
-    >>> s = raise_altitude([[0.0, 1.0, 0.0]], 0.5)
-    >>> round(float(np.degrees(np.arcsin(s[0, 2]))), 6)
-    0.5
-    """
-    s = np.atleast_2d(np.asarray(sun_enu, dtype=float))
-    horiz = np.hypot(s[:, 0], s[:, 1])
-    alt = np.arctan2(s[:, 2], horiz)
-    offset = np.broadcast_to(np.radians(offset_deg), alt.shape)
-    if taper:
-        h = np.clip(np.degrees(alt), -1.5, 90.0)
-        # Bennett (1982): R = cot(h + 7.31 / (h + 4.4)), h in degrees
-        r = 1.0 / np.tan(np.radians(h + 7.31 / (h + 4.4)))
-        r0 = 1.0 / np.tan(np.radians(7.31 / 4.4))
-        offset = offset * np.clip(r / r0, 0.0, None)
-    new_alt = alt + offset
-    az = np.arctan2(s[:, 0], s[:, 1])
-    norm = np.linalg.norm(s, axis=1)
-    out = np.stack([np.cos(new_alt) * np.sin(az), np.cos(new_alt) * np.cos(az), np.sin(new_alt)], axis=1)
-    return out * norm[:, None]

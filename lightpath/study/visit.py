@@ -37,6 +37,7 @@ from lightpath.errors import InputError
 from lightpath.light.results import LightEvent, ScanResult, ScanSettings
 from lightpath.sky.observer import Observer
 from lightpath.sky.refraction import refraction_bennett1982, refraction_saemundsson1986
+from lightpath.sky.seasons import YEAR_MAX
 
 __all__ = [
     "REFRACTION_SIGMA_DEG",
@@ -214,7 +215,9 @@ def plan_visit(
     if last_jd_ut - first_jd_ut > 3 * 366:
         raise InputError("visit window: plan at most three years at a time")
     observer: Observer = scene.observer
-    years = list(range(calendar_date(first_jd_ut)[0], calendar_date(last_jd_ut)[0] + 1))
+    # year Y's divisions run from the December solstice of Y − 1: light late in a calendar year can
+    # belong to the next year's first division, so scan one year more (each run is reported once)
+    years = list(range(calendar_date(first_jd_ut)[0], min(calendar_date(last_jd_ut)[0] + 2, YEAR_MAX + 1)))
     step = progress or (lambda n=1: None)
 
     cases: list[tuple[str, Any]] = [("as given", scene)]
@@ -287,27 +290,24 @@ def visit_scene(
     scene: Any,
     first_jd_ut: float,
     last_jd_ut: float,
+    options: Any = None,
+    window_options: Any = None,
     *,
-    criterion: str = "first-gleam",
-    scheme: str = "longitude",
-    parts: int = 8,
-    samples: int = 400,
-    seed: int = 0,
-    source: str = "auto",
-    resolution_deg: float = 0.1,
-    cache_dir: Any = None,
     refraction_sigma_deg: float = REFRACTION_SIGMA_DEG,
     window: Any = None,
     progress: Callable[[int], None] | None = None,
+    **settings: Any,
 ) -> VisitPlan:
     """:func:`plan_visit` with the engine: one sky window, scanned for each refraction case.
 
-    ``scene`` is a :class:`lightpath.site.scene.Scene` or a scene file's path; ``window`` an
-    already prepared :class:`lightpath.light.window.SkyWindow` of it (else one is made with
-    ``samples``, ``seed``, ``resolution_deg`` and ``cache_dir``).  Sunrise and sunset use
-    :func:`lightpath.sky.sun.sun_position` with the model ΔT.
+    ``scene`` is a :class:`lightpath.scene.Scene` or a scene file's path; ``options`` and
+    ``window_options`` the engine's :class:`~lightpath.light.options.ScanOptions` and
+    :class:`~lightpath.light.options.WindowOptions` (``settings``: their fields, laid over them);
+    ``window`` an already prepared :class:`lightpath.light.window.SkyWindow` of the scene.
+    Sunrise and sunset use :func:`lightpath.sky.sun.sun_position` with the model ΔT.
     """
-    from lightpath.light.scan import ScanOptions, prepare_window, scan_window_with
+    from lightpath.light.options import split_settings
+    from lightpath.light.scan import prepare_window, scan_window
     from lightpath.sky.deltat import tt_from_ut
     from lightpath.sky.sun import sun_position
 
@@ -315,18 +315,18 @@ def visit_scene(
         from lightpath.scene import load_scene
 
         scene = load_scene(scene)
+    w_options, s_options = split_settings(settings, window_options, options)
     if window is None:
-        window = prepare_window(scene, samples=samples, seed=seed, resolution_deg=resolution_deg, cache_dir=cache_dir)
+        window = prepare_window(scene, w_options)
     label = str(getattr(scene, "label", "") or getattr(scene, "path", "scene"))
-    options = ScanOptions(criterion=criterion, scheme=scheme, parts=parts, source=source)
     warnings = list(getattr(scene, "warnings", []))
 
     def scan(case_scene: Any, years: Sequence[int]) -> ScanResult:
-        return scan_window_with(window, case_scene.observer, years, options, scene_label=label, seed=seed,
-                                scene_notes=warnings)  # fmt: skip
+        return scan_window(window, case_scene.observer, years, s_options, scene_label=label, seed=w_options.seed,
+                           scene_notes=warnings)  # fmt: skip
 
     def altitude(jd_ut: np.ndarray, observer: Observer) -> np.ndarray:
-        return np.asarray(sun_position(tt_from_ut(jd_ut), observer, source=source).altitude_deg, dtype=float)
+        return np.asarray(sun_position(tt_from_ut(jd_ut), observer, source=s_options.source).altitude_deg, dtype=float)
 
     return plan_visit(
         scene,
