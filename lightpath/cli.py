@@ -19,7 +19,7 @@ from lightpath.errors import InputError
 __all__ = ["COMMANDS", "build_parser", "main"]
 
 #: Subcommand modules under :mod:`lightpath.commands`, in the order ``--help`` lists them.
-COMMANDS = ("sun", "year", "inspect", "scan", "visit", "report", "frame", "epochs", "demo")
+COMMANDS = ("sun", "year", "moon", "inspect", "scan", "visit", "report", "frame", "epochs", "demo")
 
 EXIT_OK, EXIT_INTERNAL, EXIT_BAD_INPUT = 0, 1, 2
 _PACKAGE_DIR = str(Path(__file__).resolve().parent)
