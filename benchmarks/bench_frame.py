@@ -1,10 +1,10 @@
 """Benchmark the framing test: 1,000 draws of a demo site at one epoch, serial vs 2 local workers vs dask.
 
-Run: ``/tmp/dev/bin/python benchmarks/bench_frame.py [--site shrine] [--draws 1000] [--workers 2]``.
+Run: ``python benchmarks/bench_frame.py [--site sandwren] [--draws 1000] [--workers 2]``.
 
 The sky window is built once before the clocks start (as a study does).  Then the same framing test
 (``--draws`` survey draws of the scene's tolerances at the scene's own epoch with no epoch spread, and
-``--null-draws`` null orientations; 1,000 of each by default, on the passage demo) runs
+``--null-draws`` null orientations; 1,000 of each by default, on the bent-passage demo) runs
 
 1. serially in this process (the baseline),
 2. on a local process pool of ``--workers`` spawned processes (their start-up is timed: it is part of the cost),
@@ -25,13 +25,13 @@ import resource
 import time
 import warnings
 
-#: The epoch each demo site was built for (see lightpath/demo_models/*/README.md).
-EPOCHS = {"passage": -3199, "shrine": -1499, "window": 2026}
+#: The epoch each demo site was built for (see demo_models/*/README.md).
+EPOCHS = {"sandwren": -1499, "larchfold": -2599, "quillfield": 2027}
 
 
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--site", choices=tuple(EPOCHS), default="passage")
+    parser.add_argument("--site", choices=tuple(EPOCHS), default="larchfold")
     parser.add_argument("--draws", type=int, default=1000)
     parser.add_argument("--null-draws", type=int, default=1000)
     parser.add_argument("--workers", type=int, default=2)

@@ -3,15 +3,15 @@
 Run:  python benchmarks/bench_scan.py            (about 5-10 minutes on 2 cores)
       python benchmarks/bench_scan.py --quick    (fewer samples and years, a minute or two)
 
-1. A passage chamber from the builder (the Fernmoor demo's numbers), every solid part subdivided to about
-   200,000 triangles and roughened by up to 3 mm (seeded), 2,000 target samples, the year 3200 BC:
+1. A bent passage from the builder (the Larchfold demo's numbers), every solid part subdivided to about
+   200,000 triangles and roughened by up to 3 mm (seeded), 2,000 target samples, the year 2600 BC:
    * window path: sky window (ray casting, disc convolution) + sweep, refined to 5 s;
    * brute force: a ray from every sample toward 64 points of the disc at every minute of the year at
      which the Sun's centre is above −1° *and* within the opening's reach from the target (the opening's
      bounding cone + 1°, geometry only: no light can arrive at other instants); its cost per instant is
      also measured on a random sample of all the Sun-up minutes and multiplied out to them all;
    * the lists of days with light must be identical.
-2. The same window over 1,000 years at 10-year steps (3700 BC … 2701 BC): time per span.
+2. The same window over 1,000 years at 10-year steps (3100 BC … 2101 BC): time per span.
 
 Speed is the ratio of the two paths in the same run; peak memory from tracemalloc (Python allocations,
 numpy included) and the process's maximum resident set size.
@@ -43,8 +43,8 @@ from lightpath.sky.calendar import julian_day  # noqa: E402
 
 def rough_chamber(target_faces: int = 200_000, roughness_m: float = 0.003, seed: int = 0):
     """The demo passage rebuilt, solids subdivided to ≥ ``target_faces`` and pushed in by ≤ ``roughness_m``."""
-    demo = load_scene(demo_scene_path("passage"))
-    model = demo_chamber("passage", 135.88)  # the Fernmoor demo chamber, aimed as shipped
+    demo = load_scene(demo_scene_path("larchfold"))
+    model = demo_chamber("larchfold", 115.19)  # the Larchfold demo chamber, aimed as shipped
     rng = np.random.default_rng(seed)
     solid = [m for name, m in model.parts.items() if name not in model.opening_parts and name != model.target_part]
     mesh = trimesh.util.concatenate(solid)
@@ -87,8 +87,8 @@ def main() -> int:
     parser.add_argument("--quick", action="store_true", help="500 samples, 100 years: a quick look")
     args = parser.parse_args()
     samples = 500 if args.quick else 2000
-    span = list(range(-3699, -2699 + 1, 100 if args.quick else 10))
-    year = -3199
+    span = list(range(-3099, -2099 + 1, 100 if args.quick else 10))
+    year = -2599
     tracemalloc.start()
 
     t0 = time.perf_counter()

@@ -24,7 +24,7 @@ import warnings
 
 import numpy as np
 
-_SITE = (53.452, -7.118, 100.0)  # the invented demo site of lightpath/demo_models/passage
+_SITE = (53.452, 104.637, 548.0)  # the invented demo site of demo_models/larchfold
 
 
 def _skyfield():

@@ -49,9 +49,9 @@ def _chromium(args: list[str], profile, timeout: float = 60.0) -> subprocess.Com
 
 @pytest.fixture(scope="module")
 def report_path(tmp_path_factory):
-    """A real report: the engine on the bundled window site, with a visit plan and an epoch-drift span."""
+    """A real report: the engine on the bundled reading-room site, with a visit plan and an epoch-drift span."""
     out = tmp_path_factory.mktemp("browser-report")
-    result = make_report(demo_scene_path("window"), 2026, out_dir=out, visit_year=2027, drift_years=[1826, 2026],
+    result = make_report(demo_scene_path("quillfield"), 2027, out_dir=out, visit_year=2028, drift_years=[1827, 2027],
                          samples=60, formats=("png",))  # fmt: skip
     assert result.scan.years[0].events
     return result.paths["report.html"]

@@ -9,7 +9,7 @@ import pytest
 from lightpath.cli import main
 from lightpath.scene import demo_scene_path
 
-SHRINE = str(demo_scene_path("shrine"))
+ROCK = str(demo_scene_path("sandwren"))
 FAST = ["--samples", "16", "--resolution", "0.1", "--workers", "1", "--quiet"]
 
 
@@ -20,7 +20,7 @@ def _run(capsys, argv):
 
 
 def test_frame_json_is_deterministic_and_complete(capsys, tmp_path):
-    argv = ["frame", SHRINE, "--epoch", "1500 BC±0", "--division", "cross_quarter_aug", "--draws", "6",
+    argv = ["frame", ROCK, "--epoch", "1500 BC±0", "--division", "cross_quarter_feb", "--draws", "6",
             "--null-draws", "6", "--seed", "4", "--json", *FAST]  # fmt: skip
     code, first, _ = _run(capsys, [*argv, "--output", str(tmp_path / "frame.json")])
     assert code == 0
@@ -30,26 +30,26 @@ def test_frame_json_is_deterministic_and_complete(capsys, tmp_path):
     assert json.loads((tmp_path / "frame.json").read_text()) == doc
     assert doc["epoch_year"] == -1499 and doc["epoch_sigma_years"] == 0.0 and doc["seed"] == 4
     assert doc["null_model"]["name"] == "random orientation over the sunrise/sunset arc"
-    assert doc["null_model"]["side"] == "sunset"  # the shrine looks west
+    assert doc["null_model"]["side"] == "sunset"  # the rock window looks west-south-west
     (d,) = doc["divisions"]
-    assert d["name"] == "cross_quarter_aug" and d["calendar"] == "julian"
+    assert d["name"] == "cross_quarter_feb" and d["calendar"] == "julian"
     assert d["observed_nearest_day"] == 0  # the demo is built to frame this division
     assert 1 / 7 - 1e-6 <= d["p_value"] <= 1 and 0 <= d["probability"] <= 1
     assert set(d["first_day_percentiles"]) == {"p5", "p25", "p50", "p75", "p95"}
 
 
 def test_frame_text_names_the_null_model(capsys):
-    code, out, _ = _run(capsys, ["frame", SHRINE, "--epoch", "-1499", "--division", "cross_quarter_aug",
+    code, out, _ = _run(capsys, ["frame", ROCK, "--epoch", "-1499", "--division", "cross_quarter_feb",
                                  "--draws", "3", "--null-draws", "3", *FAST])  # fmt: skip
     assert code == 0
     assert "null model    random orientation over the sunrise/sunset arc" in out
-    assert "cross_quarter_aug" in out and "± 100 years" in out  # the scene's epoch_years
+    assert "cross_quarter_feb" in out and "± 100 years" in out  # the scene's epoch_years
 
 
 @pytest.mark.parametrize(
     ("extra", "message"),
     [
-        (["--epoch", "3200 BX"], "--epoch"),
+        (["--epoch", "1500 BX"], "--epoch"),
         (["--epoch", "-1499", "--division", "midwinter"], "--division: 'midwinter'"),
         (["--epoch", "-1499", "--tolerance", "azimuth=1"], "unknown key 'azimuth'"),
         (["--epoch", "-1499", "--tolerance", "opening_azimuth_deg"], "--tolerance"),
@@ -59,13 +59,13 @@ def test_frame_text_names_the_null_model(capsys):
     ],
 )
 def test_frame_bad_input_exits_2(capsys, extra, message):
-    code, out, err = _run(capsys, ["frame", SHRINE, "--draws", "1", "--null-draws", "1", *FAST, *extra])
+    code, out, err = _run(capsys, ["frame", ROCK, "--draws", "1", "--null-draws", "1", *FAST, *extra])
     assert code == 2, err
     assert message in err and "Traceback" not in err and len(err.strip().splitlines()) == 1
 
 
 def test_epochs_json(capsys):
-    argv = ["epochs", SHRINE, "--division", "cross_quarter_aug", "--from", "2000 BC", "--to", "1000 BC",
+    argv = ["epochs", ROCK, "--division", "cross_quarter_feb", "--from", "2000 BC", "--to", "1000 BC",
             "--step", "500", "--draws", "3", "--json", *FAST]  # fmt: skip
     code, out, _ = _run(capsys, argv)
     assert code == 0
@@ -74,6 +74,6 @@ def test_epochs_json(capsys):
     row = doc["rows"][1]
     assert row["label"] == "1500 BC" and row["inside"] is True
     assert doc["spans_inside"] and doc["spans_inside"][0]["from_year"] <= -1499 <= doc["spans_inside"][0]["to_year"]
-    code, _, err = _run(capsys, ["epochs", SHRINE, "--division", "cross_quarter_aug", "--from", "0", "--to", "-10",
+    code, _, err = _run(capsys, ["epochs", ROCK, "--division", "cross_quarter_feb", "--from", "0", "--to", "-10",
                                  *FAST])  # fmt: skip
     assert code == 2 and "--to" in err

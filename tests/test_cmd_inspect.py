@@ -13,19 +13,19 @@ from lightpath.site.export import export_obj
 
 
 def test_text_output_on_a_demo(capsys):
-    assert main(["inspect", str(demo_scene_path("passage")), "--samples", "300"]) == 0
+    assert main(["inspect", str(demo_scene_path("larchfold")), "--samples", "300"]) == 0
     out = capsys.readouterr().out
-    for word in ("Fernmoor", "east, north, up", "target", "opening", "samples   300", "horizon", "warnings  none"):
+    for word in ("Larchfold", "east, north, up", "target", "opening", "samples   300", "horizon", "warnings  none"):
         assert word in out
 
 
 def test_json_output(capsys):
-    assert main(["inspect", str(demo_scene_path("window")), "--json", "--samples", "64", "--seed", "3"]) == 0
+    assert main(["inspect", str(demo_scene_path("quillfield")), "--json", "--samples", "64", "--seed", "3"]) == 0
     data = json.loads(capsys.readouterr().out)
     assert data["samples"]["count"] == 64 and data["samples"]["seed"] == 3
-    assert data["target"]["area_m2"] == pytest.approx(0.48, abs=1e-4)
-    assert data["site"]["timezone"] == "Europe/Madrid"
-    assert data["opening"]["seen_from_target_azimuth_deg"] == pytest.approx(94.5, abs=2.0)
+    assert data["target"]["area_m2"] == pytest.approx(0.35, abs=1e-4)  # the niche, 0.5 m × 0.7 m (site.builders)
+    assert data["site"]["timezone"] == "America/Chicago"
+    assert data["opening"]["seen_from_target_azimuth_deg"] == pytest.approx(93.8, abs=2.0)  # its README
     assert len(data["content_hash"]) == 64 and data["warnings"] == []
 
 
@@ -53,7 +53,7 @@ def test_bad_input_exits_2_without_traceback(tmp_path):
 def test_missing_scene_and_bad_samples(tmp_path, capsys):
     assert main(["inspect", str(tmp_path / "none.toml")]) == 2
     assert "scene file not found" in capsys.readouterr().err
-    assert main(["inspect", str(demo_scene_path("shrine")), "--samples", "0"]) == 2
+    assert main(["inspect", str(demo_scene_path("sandwren")), "--samples", "0"]) == 2
 
 
 GOOD = (

@@ -118,7 +118,7 @@ def test_tube_light_matches_the_sun_model(year, latitude_deg, hour_angle_deg, de
 
 # ---- demo sites: the window path against the brute-force path -------------------------------------------------
 
-DEMO_EPOCHS = {"passage": -3199, "shrine": -1499, "window": 2026}  # the years tools/make_demo_models.py aims at
+DEMO_EPOCHS = {"larchfold": -2599, "sandwren": -1499, "quillfield": 2027}  # the years tools/make_demo_models.py aims at
 
 
 def _brute_force_days(scene, window, year, criterion):

@@ -10,21 +10,21 @@ import pytest
 from lightpath.cli import main
 from lightpath.scene import demo_scene_path
 
-WINDOW = str(demo_scene_path("window"))
+ROOM = str(demo_scene_path("quillfield"))
 
 
 @pytest.mark.parametrize(
     ("argv", "message"),
     [
-        (["report", WINDOW, "--year", "year one", "--out", "x"], "--year"),
-        (["report", WINDOW, "--year", "2026", "--visit-year", "1850", "--out", "x"], "--visit-year: '1850' is outside"),
-        (["report", WINDOW, "--year", "2026", "--drift", "1:2:3:4", "--out", "x"], "--drift"),
-        (["report", WINDOW, "--year", "2026", "--resolution", "5", "--out", "x"], "--resolution: 5 is outside"),
-        (["report", "no-such-scene.toml", "--year", "2026", "--out", "x"], "scene file not found"),
-        (["visit", WINDOW, "--from", "2027-02-30", "--to", "2027-03-01"], "--from: '2027-02-30' is not a date"),
-        (["visit", WINDOW, "--from", "2027-03-02", "--to", "2027-03-01"], "--to 2027-03-01 is before --from"),
-        (["visit", WINDOW, "--from", "2027-03-01", "--to", "2027-03-02", "--timezone", "Mars/Base"], "--timezone"),
-        (["visit", WINDOW, "--from", "2027-03-01", "--to", "2027-03-02", "--sigma", "3"], "--sigma"),
+        (["report", ROOM, "--year", "year one", "--out", "x"], "--year"),
+        (["report", ROOM, "--year", "2027", "--visit-year", "1850", "--out", "x"], "--visit-year: '1850' is outside"),
+        (["report", ROOM, "--year", "2027", "--drift", "1:2:3:4", "--out", "x"], "--drift"),
+        (["report", ROOM, "--year", "2027", "--resolution", "5", "--out", "x"], "--resolution: 5 is outside"),
+        (["report", "no-such-scene.toml", "--year", "2027", "--out", "x"], "scene file not found"),
+        (["visit", ROOM, "--from", "2027-02-30", "--to", "2027-03-01"], "--from: '2027-02-30' is not a date"),
+        (["visit", ROOM, "--from", "2027-03-02", "--to", "2027-03-01"], "--to 2027-03-01 is before --from"),
+        (["visit", ROOM, "--from", "2027-03-01", "--to", "2027-03-02", "--timezone", "Mars/Base"], "--timezone"),
+        (["visit", ROOM, "--from", "2027-03-01", "--to", "2027-03-02", "--sigma", "3"], "--sigma"),
     ],
 )
 def test_bad_input_is_one_line_and_exit_2(argv, message, capsys, tmp_path, monkeypatch):
@@ -36,16 +36,18 @@ def test_bad_input_is_one_line_and_exit_2(argv, message, capsys, tmp_path, monke
 
 def test_visit_json_and_calendar_file(tmp_path, capsys):
     ics = tmp_path / "equinox.ics"
-    argv = ["visit", WINDOW, "--from", "2027-03-10", "--to", "2027-03-31", "--ics", str(ics), "--samples", "60",
+    argv = ["visit", ROOM, "--from", "2027-03-10", "--to", "2027-03-31", "--ics", str(ics), "--samples", "60",
             "--json", "--quiet"]  # fmt: skip
     assert main(argv) == 0
     doc = json.loads(capsys.readouterr().out)
-    assert doc["timezone"] == "Europe/Madrid" and doc["refraction_cases"][0] == "as given"
+    assert doc["timezone"] == "America/Chicago" and doc["refraction_cases"][0] == "as given"
     events = doc["events"]
-    assert events, "the window site is built for light around the March equinox"
-    # Spain moves its clocks forward on 2027-03-28 (IANA tz database via zoneinfo): +01:00 before, +02:00 after.
+    assert events, "the reading room is built for light around the March equinox"
+    # US Central time moves its clocks forward on 2027-03-14 (IANA tz database via zoneinfo): −06:00 before,
+    # −05:00 after; the visit's mornings fall on both sides.
     offsets = {e["date"]: e["utc_offset"] for e in events}
-    assert all(v == ("+01:00" if d < "2027-03-28" else "+02:00") for d, v in offsets.items())
+    assert all(v == ("-06:00" if d < "2027-03-14" else "-05:00") for d, v in offsets.items())
+    assert set(offsets.values()) == {"-06:00", "-05:00"}
     for e in events:
         assert e["sunrise"] < e["earliest_start"] <= e["start"] <= e["latest_start"] < e["sunset"]
         assert e["earliest_end"] <= e["end"] <= e["latest_end"]
@@ -55,7 +57,7 @@ def test_visit_json_and_calendar_file(tmp_path, capsys):
 
 def test_report_command_writes_its_files(tmp_path, capsys):
     out = tmp_path / "r"
-    argv = ["report", WINDOW, "--year", "2026", "--out", str(out), "--samples", "40", "--no-svg", "--json", "--quiet"]
+    argv = ["report", ROOM, "--year", "2027", "--out", str(out), "--samples", "40", "--no-svg", "--json", "--quiet"]
     assert main(argv) == 0
     doc = json.loads(capsys.readouterr().out)
     assert set(doc["files"]) >= {"report.html", "events.csv", "divisions.csv", "tables.json"}

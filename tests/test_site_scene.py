@@ -282,8 +282,8 @@ def test_the_documented_examples_load(tmp_path):
     doc = (Path(__file__).resolve().parents[1] / "docs" / "scene-format.md").read_text()
     blocks = re.findall(r"```toml\n(.*?)```", doc, re.S)
     assert len(blocks) >= 2
-    demo = demo_scene_path("passage").parent
-    for name in ("passage.obj", "horizon.csv"):
+    demo = demo_scene_path("larchfold").parent
+    for name in ("larchfold.obj", "horizon.csv"):
         shutil.copy(demo / name, tmp_path / name)
     for i, block in enumerate(blocks):
         scene = load_scene(write(tmp_path, block, f"example{i}.toml"))

@@ -112,7 +112,7 @@ def test_frame_command_on_a_cluster_gives_the_serial_json(dask_client, capsys):
     from lightpath.cli import main
     from lightpath.scene import demo_scene_path
 
-    argv = ["frame", str(demo_scene_path("shrine")), "--epoch", "-1499±0", "--division", "cross_quarter_aug"]
+    argv = ["frame", str(demo_scene_path("sandwren")), "--epoch", "-1499±0", "--division", "cross_quarter_feb"]
     argv += ["--draws", "4", "--null-draws", "4", "--samples", "16", "--resolution", "0.1", "--json", "--quiet"]
     assert main([*argv, "--workers", "1"]) == 0
     serial = capsys.readouterr().out

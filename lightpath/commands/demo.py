@@ -1,11 +1,14 @@
 """``lightpath demo [--out DIR]``: inspect, divide the year, scan and report on the bundled demo sites.
 
-The three demo sites are invented (no real monument is meant); see
-``lightpath/demo_models/*/README.md``.  For each one the demo loads the scene
-(as ``lightpath inspect``), works out the divisions of the year at its epoch (as
-``lightpath year``), scans the year for light and writes the full report (as
-``lightpath report``, with a visit plan for next year and an epoch-drift span),
-calling the Python API directly.  It ends by printing where the reports are.
+The three demo sites are invented (no real monument is meant); see ``demo_models/*/README.md`` (installed as
+``lightpath/demo_models/``).  Each shows one capability: ``sandwren``, a rock-cut window in the southern
+hemisphere lit at a cross-quarter sunset in 1500 BC (a Julian-calendar year); ``larchfold``, a bent passage lit
+at a sixteenth-of-the-year sunrise over a skyline computed from a ridge in 2600 BC (sixteen divisions);
+``quillfield``, a modern reading room's equinox niche in AD 2027 (visit planning in a time zone with
+daylight-saving time).  For each one the demo loads the scene (as ``lightpath inspect``), works out the
+divisions of the year at its epoch (as ``lightpath year``), scans the year for light and writes the full
+report (as ``lightpath report``, with a visit plan for next year and an epoch-drift span), calling the Python
+API directly.  It ends by printing where the reports are.
 
 >>> import argparse
 >>> p = argparse.ArgumentParser(); add_arguments(p)
@@ -37,18 +40,20 @@ HELP = "run everything on the bundled demo sites and write their reports (about 
 
 @dataclass(frozen=True)
 class DemoRun:
-    """What the demo does with one bundled site: its epoch and the span of years for the drift figure."""
+    """What the demo does with one bundled site: its epoch, the span of years for the drift figure and the
+    number of divisions of the year its tables show."""
 
     site: str
     year: int
     drift_years: tuple[int, ...]
+    parts: int = 8
 
 
 #: The demo's runs: each site at the epoch it was built for (see its README), drift over six centuries.
 DEMO_RUNS = (
-    DemoRun("passage", -3199, (-3499, -3349, -3199, -3049, -2899)),
-    DemoRun("shrine", -1499, (-1799, -1649, -1499, -1349, -1199)),
-    DemoRun("window", 2026, (1426, 1626, 1826, 2026, 2226)),
+    DemoRun("sandwren", -1499, (-1799, -1649, -1499, -1349, -1199)),
+    DemoRun("larchfold", -2599, (-2899, -2749, -2599, -2449, -2299), parts=16),
+    DemoRun("quillfield", 2027, (1427, 1627, 1827, 2027, 2227)),
 )
 
 
@@ -60,7 +65,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--samples", type=int, default=200, metavar="K", help="target samples per site (default 200)")
     parser.add_argument("--visit-year", type=int, metavar="Y", help="year of the visit plans (default: next year)")
     parser.add_argument("--sites", default=",".join(r.site for r in DEMO_RUNS), metavar="A,B",
-                        help="which demo sites (default all: passage,shrine,window)")  # fmt: skip
+                        help="which demo sites (default all: sandwren,larchfold,quillfield)")  # fmt: skip
     add_output_options(parser)
 
 
@@ -113,7 +118,8 @@ def run_demo(
         step(1)
         with warnings.catch_warnings(record=True) as caught:  # accuracy notices: kept once, in the summary
             warnings.simplefilter("always", SunAccuracyWarning)
-            year_doc = year_document(demo.year, scene.observer, parts=8, scheme="longitude", horizon=scene.horizon)
+            year_doc = year_document(demo.year, scene.observer, parts=demo.parts, scheme="longitude",
+                                     horizon=scene.horizon)  # fmt: skip
         notices = [str(w.message) for w in caught if issubclass(w.category, SunAccuracyWarning)]
         for w in caught:
             if not issubclass(w.category, SunAccuracyWarning):
@@ -121,7 +127,8 @@ def run_demo(
         write_text_atomic(out / name / "year.json", json.dumps(to_jsonable(year_doc), indent=2) + "\n")
         step(1)
         result = make_report(scene, demo.year, out_dir=out / name, visit_year=visit_year,
-                             drift_years=list(demo.drift_years), samples=samples, progress=step)  # fmt: skip
+                             drift_years=list(demo.drift_years), parts=demo.parts, samples=samples,
+                             progress=step)  # fmt: skip
         rows.append(
             {
                 "site": name,

@@ -12,7 +12,7 @@ keys        the keys a scene file may hold and the checks every value goes throu
 modelscene  :func:`scene_from_model`: a scene straight from a parametric chamber, no file written
 terrain     :func:`horizon_from_terrain`: the site layer's terrain skyline as a horizon profile
 
->>> scene = load_scene(demo_scene_path("window"))
+>>> scene = load_scene(demo_scene_path("quillfield"))
 >>> round(scene.observer.latitude_deg, 1), scene.opening is not None
 (38.9, True)
 """

@@ -3,8 +3,8 @@
 The format is documented key by key in ``docs/scene-format.md``.  A minimal file::
 
     [site]
-    latitude_deg = 53.2
-    longitude_deg = -7.4
+    latitude_deg = 53.45
+    longitude_deg = 104.64
 
     [model]
     file = "chamber.obj"     # relative to this file
@@ -13,13 +13,13 @@ The format is documented key by key in ``docs/scene-format.md``.  A minimal file
     north = "true"
 
     [target]
-    groups = ["backstone"]
+    groups = ["slab"]
 
 Everything comes out in the site frame (East-North-Up metres).  ``Scene.mesh`` holds all geometry that
 blocks light (the target included); the opening — the surface light passes through, e.g. a pane across a
 slot — never blocks light: faces selected as the opening by name are taken out of ``Scene.mesh``.
 
->>> scene = load_scene(demo_scene_path("passage"))
+>>> scene = load_scene(demo_scene_path("larchfold"))
 >>> scene.observer.latitude_deg > 50 and scene.opening is not None and scene.report.target_area_m2 > 0
 True
 """
@@ -47,8 +47,13 @@ from lightpath.sky.observer import REFRACTION_MODELS, Observer
 
 __all__ = ["Scene", "load_scene", "demo_scene_path", "DEMO_SITES", "standard_pressure_mbar", "hash_geometry"]
 
-#: Demo sites shipped in ``lightpath/demo_models/`` (folder name → scene file).
-DEMO_SITES = {"passage": "passage/scene.toml", "shrine": "shrine/scene.toml", "window": "window/scene.toml"}
+#: Invented demo sites in the repository's ``demo_models/`` (installed as ``lightpath/demo_models/``):
+#: folder name → scene file.
+DEMO_SITES = {
+    "sandwren": "sandwren/scene.toml",
+    "larchfold": "larchfold/scene.toml",
+    "quillfield": "quillfield/scene.toml",
+}
 
 _HASH_VERSION = b"lightpath-scene-geometry-1"
 
@@ -71,10 +76,18 @@ class Scene:
 
 
 def demo_scene_path(name: str) -> Path:
-    """Path of a bundled demo scene: ``"passage"``, ``"shrine"`` or ``"window"``."""
+    """Path of a bundled demo scene: ``"sandwren"``, ``"larchfold"`` or ``"quillfield"``.
+
+    An installed package holds them in ``lightpath/demo_models/``; a source checkout (editable install) in the
+    repository's top-level ``demo_models/``.
+    """
     if name not in DEMO_SITES:
         raise InputError(f"demo site {name!r} is not one of {', '.join(DEMO_SITES)}")
-    return Path(__file__).resolve().parent.parent / "demo_models" / DEMO_SITES[name]
+    package = Path(__file__).resolve().parent.parent
+    for folder in (package / "demo_models", package.parent / "demo_models"):
+        if (folder / DEMO_SITES[name]).is_file():
+            return folder / DEMO_SITES[name]
+    raise InputError(f"demo site {name!r}: no demo_models/ folder beside the lightpath package (reinstall it)")
 
 
 def standard_pressure_mbar(elevation_m: float) -> float:

@@ -206,54 +206,55 @@ def passage_chamber(
 
 # The demo sites' chambers: builder and its keywords (sizes in metres), by site name.
 _DEMO_CHAMBERS = {
-    "passage": (
-        passage_chamber,
-        dict(
-            floor_slope_deg=2.0,
-            length_m=16.0,
-            width_m=1.0,
-            height_m=1.6,
-            chamber=Chamber(depth_m=3.2, width_m=3.0, height_m=2.6, backstone=(-0.6, 0.6, 0.0, 1.2)),
-            slot=Slot(width_m=0.5, height_m=0.3),
-            wall_m=0.6,
-            lintel_m=0.35,
-        ),
-    ),
-    "shrine": (
+    "sandwren": (
         slit_shrine,
         dict(
-            depth_m=4.5,
-            width_m=2.6,
-            height_m=2.4,
-            rock_m=2.0,
-            slit=Slot(width_m=0.05, height_m=0.5, sill_m=1.0),
-            image=(-0.45, 0.45, 0.4, 1.0),
+            depth_m=3.6,
+            width_m=2.8,
+            height_m=2.2,
+            rock_m=1.5,
+            slit=Slot(width_m=0.1, height_m=0.35, sill_m=1.15),
+            image=(-0.2, 0.2, 0.7, 1.3),
         ),
     ),
-    "window": (
+    "larchfold": (
+        passage_chamber,
+        dict(
+            floor_slope_deg=-2.5,
+            length_m=14.0,
+            width_m=0.9,
+            height_m=1.4,
+            chamber=Chamber(depth_m=2.4, width_m=2.4, height_m=1.8, backstone=(-0.2, 0.7, 0.0, 0.9)),
+            slot=Slot(width_m=0.6, height_m=0.3),
+            bend=Bend(at_m=7.0, angle_deg=4.0),
+            wall_m=0.6,
+            lintel_m=0.3,
+        ),
+    ),
+    "quillfield": (
         window_room,
         dict(
-            depth_m=6.0,
-            width_m=4.2,
-            height_m=3.2,
-            wall_m=1.2,
-            window=Slot(width_m=0.3, height_m=0.55, sill_m=1.75),
-            niche=Niche(width_m=0.6, height_m=0.8, depth_m=0.45, sill_m=0.9),
+            depth_m=7.0,
+            width_m=5.0,
+            height_m=3.6,
+            wall_m=0.9,
+            window=Slot(width_m=0.4, height_m=0.7, sill_m=2.0),
+            niche=Niche(width_m=0.5, height_m=0.7, depth_m=0.35, sill_m=1.1),
         ),
     ),
 }
 
 
 def demo_chamber(site: str, azimuth_deg: float) -> ChamberModel:
-    """The chamber of the demo site ``site`` (``"passage"``, ``"shrine"`` or ``"window"``), its opening's
+    """The chamber of the demo site ``site`` (``"sandwren"``, ``"larchfold"`` or ``"quillfield"``), its opening's
     axis looking out to ``azimuth_deg`` (degrees from true north, clockwise); every size in metres.
 
-    The invented sites in ``lightpath/demo_models/`` are these models exported by ``tools/make_demo_models.py``
-    (which aims them); ``benchmarks/bench_scan.py`` roughens the passage.
+    The invented sites in ``demo_models/`` are these models exported by ``tools/make_demo_models.py``
+    (which aims them); ``benchmarks/bench_scan.py`` roughens the bent passage.
 
-    >>> m = demo_chamber("passage", 135.88)
+    >>> m = demo_chamber("larchfold", 115.19)
     >>> m.kind, m.opening_parts, round(float(m.target().area), 2)
-    ('passage_chamber', ('slot',), 1.44)
+    ('passage_chamber', ('slot',), 0.81)
     """
     if site not in _DEMO_CHAMBERS:
         raise ValueError(f"demo site {site!r} is not one of {', '.join(_DEMO_CHAMBERS)}")
