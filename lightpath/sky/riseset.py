@@ -42,10 +42,18 @@ Smart, W. M. (1977). *Textbook on Spherical Astronomy*, 6th ed., Cambridge Unive
 
 Bennett, G. G. (1982). The calculation of astronomical refraction in marine navigation. *Journal of
 Navigation* 35, 255–259 (through :mod:`lightpath.sky.refraction`).
+
+:func:`rise_set_instants` gives the *instants* of the same events (upper limb at apparent altitude 0 by
+default, the almanac definition; Meeus 1998 ch. 15 and Urban & Seidelmann 2012 ch. 14 use a fixed −50′
+for the centre instead), over a flat horizon or a skyline, from the Sun's topocentric geometric altitude.
+
+Urban, S. E. & Seidelmann, P. K., eds. (2012). *Explanatory Supplement to the Astronomical Almanac*, 3rd ed.,
+University Science Books, ch. 14 (sunrise and sunset: the upper limb on the horizon).
 """
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from typing import Literal
 
 import numpy as np
@@ -61,6 +69,7 @@ __all__ = [
     "SOLAR_PARALLAX_DEG",
     "azimuth_altitude_from_hour_angle",
     "rise_set_azimuths",
+    "rise_set_instants",
 ]
 
 Limb = Literal["centre", "upper", "lower"]
@@ -75,6 +84,7 @@ MEAN_SEMIDIAMETER_DEG = 0.2666
 #: Equatorial horizontal parallax of the Sun at 1 au, degrees (8.794″; Meeus 1998 ch. 40).
 SOLAR_PARALLAX_DEG = 8.794 / 3600.0
 
+_INSTANT_BISECT_STEPS = 24  # 1 min / 2**24 ≈ 4 µs
 _PROFILE_STEP_DEG = 0.05  # hour-angle sampling of the diurnal circle on a skyline profile
 _BISECT_STEPS = 40  # 0.05° / 2**40 ≈ 5e-14°
 
@@ -255,4 +265,108 @@ def rise_set_azimuths(
         rise, set_ = _profile(flat_dec, lat, horizon, target)
     rise = np.where(np.isnan(flat_dec), np.nan, rise).reshape(shape)
     set_ = np.where(np.isnan(flat_dec), np.nan, set_).reshape(shape)
+    return (rise[()], set_[()]) if not shape else (rise, set_)
+
+
+#: ``sun_fn(jd_ut) -> (azimuth_deg, topocentric geometric altitude_deg, semidiameter_deg)`` at UT instants.
+SunTrack = Callable[[NDArray], tuple[NDArray, NDArray, NDArray]]
+
+
+def _sun_track(observer, source: str) -> SunTrack:
+    from lightpath.sky.deltat import tt_from_ut
+    from lightpath.sky.sun import sun_position
+
+    def track(jd_ut: NDArray):
+        pos = sun_position(tt_from_ut(jd_ut), observer, source=source)
+        return pos.azimuth_deg, pos.altitude_geometric_deg, pos.semidiameter_deg
+
+    return track
+
+
+def rise_set_instants(
+    day_start_jd_ut: ArrayLike,
+    observer,
+    *,
+    horizon: HorizonProfile | None = None,
+    limb: Limb = "upper",
+    source: str = "auto",
+    sun_fn: SunTrack | None = None,
+    step_min: float = 1.0,
+) -> tuple[NDArray, NDArray]:
+    """Sunrise and sunset instants (JD UT) in the 24 h after each ``day_start_jd_ut``; nan when there is none.
+
+    Sunrise is the first instant of the day at which the chosen point of the disc (``"upper"`` limb by
+    default) rises to the skyline's apparent altitude, sunset the last at which it sinks to it.  Refraction
+    (the observer's model and air) is removed at the skyline's altitude, where the limb is seen, so the event
+    is when the Sun's topocentric geometric altitude h satisfies
+
+        h + k·s = geometric(a_skyline(A)),      k = +1 (upper limb), 0 (centre), −1 (lower limb),
+
+    with s the topocentric semidiameter and A the Sun's azimuth; on the astronomical horizon (``horizon``
+    None) a_skyline = 0, so the upper limb stands at apparent altitude 0 — the same rule as
+    :func:`rise_set_azimuths`.  The day is sampled every ``step_min`` minutes and each crossing refined by
+    bisection to a few microseconds; skyline features passed in less than a step can be missed.
+
+    Parameters
+    ----------
+    day_start_jd_ut : start(s) of the days (e.g. local midnights), JD UT; any shape.
+    observer : :class:`~lightpath.sky.observer.Observer` (site and air).
+    horizon : skyline profile (apparent altitudes), or None for the astronomical horizon (apparent 0°).
+    limb : ``"upper"`` (first/last gleam; the almanac sunrise), ``"centre"`` or ``"lower"``.
+    source : Sun source for :func:`lightpath.sky.sun.sun_position` (ΔT from the model).
+    sun_fn : instead of ``source``, a function of JD UT giving (azimuth, geometric altitude, semidiameter), deg.
+    step_min : sampling step, minutes.
+
+    Returns
+    -------
+    (rise_jd_ut, set_jd_ut), shaped like ``day_start_jd_ut``.
+
+    Examples
+    --------
+    >>> from lightpath.sky.calendar import julian_day
+    >>> from lightpath.sky.observer import Observer
+    >>> rise, set_ = rise_set_instants(julian_day(2027, 3, 20.0), Observer(0.0, 0.0), source="jpl")
+    >>> round(float((set_ - rise) * 24), 2)   # equator at the equinox: the day outlasts the night by refraction
+    12.11
+
+    References
+    ----------
+    Urban & Seidelmann (2012) ch. 14; Meeus (1998) ch. 15 (a sampled altitude with interpolation) and ch. 16.
+    """
+    _check(limb, observer.refraction)
+    starts = np.asarray(day_start_jd_ut, dtype=float)
+    shape = starts.shape
+    start = starts.reshape(-1)
+    sun_fn = sun_fn or _sun_track(observer, source)
+    k = _LIMB_SIGN[limb]
+    step = float(step_min) / 1440.0
+
+    def excess(jd: NDArray) -> NDArray:  # > 0 where the chosen limb is above the skyline
+        az, alt, semi = (np.asarray(v, dtype=float) for v in sun_fn(jd))
+        sky = np.zeros_like(alt) if horizon is None else np.asarray(horizon.altitude_at(az), dtype=float)
+        if observer.refraction is not None:
+            sky = geometric_altitude(sky, observer.refraction, observer.pressure_mbar, observer.temperature_c)
+        return alt + k * semi - sky
+
+    n_steps = int(np.ceil(1.0 / step))
+    grid = start[:, None] + np.arange(n_steps + 1)[None, :] * step
+    up = excess(grid.ravel()).reshape(grid.shape) > 0.0
+    rising = ~up[:, :-1] & up[:, 1:]
+    setting = up[:, :-1] & ~up[:, 1:]
+    i_rise = np.argmax(rising, axis=1)
+    i_set = rising.shape[1] - 1 - np.argmax(setting[:, ::-1], axis=1)
+
+    def refine(i: NDArray, found: NDArray, going_up: bool) -> NDArray:
+        lo = start + i * step
+        hi = lo + step
+        for _ in range(_INSTANT_BISECT_STEPS):
+            mid = 0.5 * (lo + hi)
+            above = excess(mid) > 0.0
+            to_lo = above if going_up else ~above  # the crossing lies before mid
+            hi = np.where(to_lo, mid, hi)
+            lo = np.where(to_lo, lo, mid)
+        return np.where(found & np.isfinite(start), 0.5 * (lo + hi), np.nan)
+
+    rise = refine(i_rise, rising.any(axis=1), True).reshape(shape)
+    set_ = refine(i_set, setting.any(axis=1), False).reshape(shape)
     return (rise[()], set_[()]) if not shape else (rise, set_)

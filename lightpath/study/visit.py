@@ -5,8 +5,10 @@ three times: with the site's air as given, and with the refraction near the
 horizon made smaller and larger by its observed scatter (σ ≈ 0.18° at sunrise
 and sunset; Sampson et al. 2003).  Each event then carries its expected start,
 peak and end clock times and the earliest and latest start and end among the
-three runs.  Sunrise and sunset (upper limb on the astronomical horizon, with
-refraction) come from the Sun's apparent altitude sampled every minute.
+three runs.  Sunrise and sunset are the instants the Sun's upper limb stands at
+apparent altitude 0 on the scene's skyline (the astronomical horizon when the
+scene has none), from :func:`lightpath.sky.riseset.rise_set_instants`; the plan
+says which horizon was used.
 
 The refraction is scaled through the air's pressure and temperature, since the
 models scale with (P/1010)·(283/(273+T)) (Meeus 1998 ch. 16): a factor
@@ -37,6 +39,7 @@ from lightpath.errors import InputError
 from lightpath.light.results import LightEvent, ScanResult, ScanSettings
 from lightpath.sky.observer import Observer
 from lightpath.sky.refraction import refraction_bennett1982, refraction_saemundsson1986
+from lightpath.sky.riseset import SunTrack, rise_set_instants
 from lightpath.sky.seasons import YEAR_MAX
 
 __all__ = [
@@ -47,6 +50,7 @@ __all__ = [
     "match_events",
     "observer_with_refraction_scaled",
     "plan_visit",
+    "horizon_label",
     "sunrise_sunset",
     "visit_scene",
 ]
@@ -63,8 +67,8 @@ class VisitEvent:
     """One light event for a visitor, as instants (JD UT); :mod:`lightpath.present.visits` gives clock times.
 
     ``earliest_*``/``latest_*`` are the extremes among the refraction cases that give the event;
-    ``sunrise``/``sunset`` are for the upper limb on the astronomical horizon, with refraction, on the
-    local day of the event (nan when the Sun does not rise or set).
+    ``sunrise``/``sunset`` are for the upper limb at apparent altitude 0 on the plan's horizon
+    (:attr:`VisitPlan.sunrise_horizon`), on the local day of the event (nan when the Sun does not rise or set).
     """
 
     event: LightEvent
@@ -104,6 +108,7 @@ class VisitPlan:
     latitude_deg: float
     longitude_deg: float
     notes: list[str] = field(default_factory=list)
+    sunrise_horizon: str = "the astronomical horizon"  # what sunrise and sunset were computed over
 
 
 def observer_with_refraction_scaled(observer: Observer, factor: float) -> Observer:
@@ -155,34 +160,30 @@ def local_day_start(jd_ut: ArrayLike, longitude_deg: float) -> np.ndarray:
 def sunrise_sunset(
     jd_ut_midnight: np.ndarray,
     observer: Observer,
-    altitude_fn: Callable[[np.ndarray, Observer], np.ndarray],
+    sun_fn: SunTrack | None = None,
     *,
+    horizon: Any = None,
+    source: str = "auto",
     step_min: float = 1.0,
 ) -> tuple[np.ndarray, np.ndarray]:
     """Sunrise and sunset (JD UT) on each day starting at ``jd_ut_midnight``; nan when there is none.
 
-    The upper limb meets the astronomical horizon: the apparent altitude of the Sun's centre
-    crosses −semidiameter.  ``altitude_fn(jd_ut, observer)`` gives the apparent altitude
-    (degrees) for an array of UT instants; it is called once for every day at once.
-    Crossings are found on a ``step_min`` grid and refined by linear interpolation.
+    The Sun's upper limb at apparent altitude 0 on ``horizon`` (a skyline profile; None: the astronomical
+    horizon): :func:`lightpath.sky.riseset.rise_set_instants` with ``sun_fn`` (JD UT → azimuth, geometric
+    altitude, semidiameter) or the ``source``.
     """
     start = np.atleast_1d(np.asarray(jd_ut_midnight, dtype=float))
-    steps = np.arange(0.0, 1440.0 + step_min, step_min) / 1440.0
-    jd = start[:, None] + steps[None, :]
-    alt = np.asarray(altitude_fn(jd.ravel(), observer), dtype=float).reshape(jd.shape) + SUN_SEMIDIAMETER_DEG
-    up = alt > 0
-    rise_idx = np.argmax(~up[:, :-1] & up[:, 1:], axis=1)
-    set_idx = np.argmax(up[:, :-1] & ~up[:, 1:], axis=1)
-    has_rise = (~up[:, :-1] & up[:, 1:]).any(axis=1)
-    has_set = (up[:, :-1] & ~up[:, 1:]).any(axis=1)
+    return rise_set_instants(start, observer, horizon=horizon, source=source, sun_fn=sun_fn, step_min=step_min)
 
-    def refine(idx: np.ndarray, ok: np.ndarray) -> np.ndarray:
-        rows = np.arange(jd.shape[0])
-        a0, a1 = alt[rows, idx], alt[rows, idx + 1]
-        frac = np.where(a1 != a0, a0 / (a0 - a1), 0.0)
-        return np.where(ok, jd[rows, idx] + frac * (steps[1] - steps[0]), np.nan)
 
-    return refine(rise_idx, has_rise), refine(set_idx, has_set)
+def horizon_label(horizon: Any) -> str:
+    """Words for the horizon sunrise and sunset are computed over (for notes and tables)."""
+    if horizon is None:
+        return "the astronomical horizon"
+    alt = np.asarray(horizon.altitude_deg, dtype=float)
+    if np.ptp(alt) == 0.0:
+        return "the astronomical horizon" if alt[0] == 0.0 else f"a level horizon at {alt[0]:+.2f}°"
+    return f"the scene's skyline ({getattr(horizon, 'source', 'horizon profile')})"
 
 
 def plan_visit(
@@ -191,7 +192,8 @@ def plan_visit(
     last_jd_ut: float,
     *,
     scan: Callable[..., ScanResult],
-    altitude_fn: Callable[[np.ndarray, Observer], np.ndarray],
+    sun_fn: Callable[[np.ndarray, Observer], tuple[np.ndarray, np.ndarray, np.ndarray]] | None = None,
+    source: str = "auto",
     refraction_sigma_deg: float = REFRACTION_SIGMA_DEG,
     progress: Callable[[int], None] | None = None,
     **scan_options: Any,
@@ -203,7 +205,8 @@ def plan_visit(
     scene : a loaded scene (``scene.label``, ``scene.observer``).
     first_jd_ut, last_jd_ut : the span of the visit window, Julian dates in UT (e.g. civil midnights).
     scan : the engine's scan function, ``scan(scene, years, **scan_options) -> ScanResult``.
-    altitude_fn : apparent solar altitude (degrees) at UT instants for an observer, for sunrise/sunset.
+    sun_fn : for sunrise/sunset, ``sun_fn(jd_ut, observer)`` → (azimuth, geometric altitude, semidiameter) of
+        the Sun, degrees; None uses ``source``.  They are over ``scene.horizon`` when the scene has one.
     refraction_sigma_deg : 1σ of refraction at the horizon, degrees (0 runs the nominal case only).
     progress : called with 1 after each engine run.
     scan_options : passed to ``scan`` (criterion, samples, seed, resolution_deg, cache_dir, …).
@@ -215,6 +218,7 @@ def plan_visit(
     if last_jd_ut - first_jd_ut > 3 * 366:
         raise InputError("visit window: plan at most three years at a time")
     observer: Observer = scene.observer
+    horizon = getattr(scene, "horizon", None)
     # year Y's divisions run from the December solstice of Y − 1: light late in a calendar year can
     # belong to the next year's first division, so scan one year more (each run is reported once)
     years = list(range(calendar_date(first_jd_ut)[0], min(calendar_date(last_jd_ut)[0] + 2, YEAR_MAX + 1)))
@@ -249,7 +253,8 @@ def plan_visit(
     nominal = results[0]
     if nominal:
         day_starts = local_day_start(np.array([e.peak_jd_ut for e in nominal]), observer.longitude_deg)
-        rises, sets = sunrise_sunset(day_starts, observer, altitude_fn)
+        track = None if sun_fn is None else (lambda jd: sun_fn(jd, observer))
+        rises, sets = sunrise_sunset(day_starts, observer, track, horizon=horizon, source=source)
     visits = []
     for k, event in enumerate(nominal):
         matched = [event] + [m for m in (match_events(event, other) for other in results[1:]) if m is not None]
@@ -270,6 +275,7 @@ def plan_visit(
                 cases_with_light=len(matched),
             )
         )
+    notes.append(f"Sunrise and sunset: the Sun's upper limb at apparent altitude 0 on {horizon_label(horizon)}.")
     if any(v.cases_with_light < len(cases) for v in visits):
         notes.append("Some events do not occur in every refraction case: they are marginal.")
     return VisitPlan(
@@ -283,6 +289,7 @@ def plan_visit(
         latitude_deg=observer.latitude_deg,
         longitude_deg=observer.longitude_deg,
         notes=notes,
+        sunrise_horizon=horizon_label(horizon),
     )
 
 
@@ -304,12 +311,10 @@ def visit_scene(
     ``window_options`` the engine's :class:`~lightpath.light.options.ScanOptions` and
     :class:`~lightpath.light.options.WindowOptions` (``settings``: their fields, laid over them);
     ``window`` an already prepared :class:`lightpath.light.window.SkyWindow` of the scene.
-    Sunrise and sunset use :func:`lightpath.sky.sun.sun_position` with the model ΔT.
+    Sunrise and sunset use :func:`lightpath.sky.sun.sun_position` with the model ΔT, over the scene's horizon.
     """
     from lightpath.light.options import split_settings
     from lightpath.light.scan import prepare_window, scan_window
-    from lightpath.sky.deltat import tt_from_ut
-    from lightpath.sky.sun import sun_position
 
     if not hasattr(scene, "observer"):
         from lightpath.scene import load_scene
@@ -325,15 +330,12 @@ def visit_scene(
         return scan_window(window, case_scene.observer, years, s_options, scene_label=label, seed=w_options.seed,
                            scene_notes=warnings)  # fmt: skip
 
-    def altitude(jd_ut: np.ndarray, observer: Observer) -> np.ndarray:
-        return np.asarray(sun_position(tt_from_ut(jd_ut), observer, source=s_options.source).altitude_deg, dtype=float)
-
     return plan_visit(
         scene,
         first_jd_ut,
         last_jd_ut,
         scan=scan,
-        altitude_fn=altitude,
+        source=s_options.source,
         refraction_sigma_deg=refraction_sigma_deg,
         progress=progress,
     )
