@@ -14,6 +14,7 @@ from typing import Any
 import numpy as np
 
 from lightpath.errors import InputError
+from lightpath.present.tables import settings_line
 
 #: Where sky windows are cached unless --cache or --no-cache says otherwise.
 DEFAULT_CACHE = Path.home() / ".cache" / "lightpath"
@@ -146,7 +147,9 @@ def progress_bar(description: str, total: int, quiet: bool = False) -> Iterator[
         yield lambda n=1: progress.advance(task, n)
 
 
-def add_engine_options(parser: argparse.ArgumentParser, *, divisions: bool = True) -> None:
+def add_engine_options(
+    parser: argparse.ArgumentParser, *, divisions: bool = True, seed_help: str = "seed of the target sampling"
+) -> None:
     """The engine's settings as options, the same names and defaults in every command.
 
     Defaults come from :class:`lightpath.light.options.WindowOptions` and
@@ -166,7 +169,7 @@ def add_engine_options(parser: argparse.ArgumentParser, *, divisions: bool = Tru
                         help=f"when a target sample is lit (default {o.criterion})")  # fmt: skip
     parser.add_argument("--samples", type=int, default=w.samples, metavar="K",
                         help=f"target samples, 1..1000000 (default {w.samples})")  # fmt: skip
-    parser.add_argument("--seed", type=int, default=w.seed, help=f"seed of the target sampling (default {w.seed})")
+    parser.add_argument("--seed", type=int, default=w.seed, help=f"{seed_help} (default {w.seed})")
     parser.add_argument("--resolution", type=float, default=w.resolution_deg, metavar="DEG",
                         help=f"sky window cell, 0.01..1 degrees (default {w.resolution_deg:g})")  # fmt: skip
     parser.add_argument("--source", choices=("auto", "jpl", "vsop87"), default=o.source,
@@ -205,13 +208,3 @@ def engine_options(args: argparse.Namespace):
         name, _, rest = str(exc).partition(":")
         raise InputError(f"{flags.get(name, name)}:{rest}") from None
     return w, o
-
-
-def settings_line(settings) -> str:
-    """The engine's settings in one line, printed beside every result (samples and cell size first)."""
-    dt = "model" if settings.delta_t_s is None else f"{settings.delta_t_s:g} s"
-    return (
-        f"{settings.samples} target samples, {settings.resolution_deg:g}° window cells, criterion "
-        f"{settings.criterion}, {settings.parts} divisions ({settings.scheme}), Sun {settings.source}, ΔT {dt}; "
-        f"days are {settings.day_convention}s"
-    )

@@ -28,7 +28,14 @@ import warnings
 from dataclasses import dataclass
 from pathlib import Path
 
-from lightpath.commands._common import add_output_options, print_json, progress_bar, to_jsonable
+from lightpath.commands._common import (
+    add_engine_options,
+    add_output_options,
+    engine_options,
+    print_json,
+    progress_bar,
+    to_jsonable,
+)
 from lightpath.errors import InputError
 from lightpath.files import write_text_atomic
 
@@ -62,10 +69,10 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument(
         "--out", default="lightpath-demo", metavar="DIR", help="folder to write into (default ./lightpath-demo)"
     )
-    parser.add_argument("--samples", type=int, default=200, metavar="K", help="target samples per site (default 200)")
     parser.add_argument("--visit-year", type=int, metavar="Y", help="year of the visit plans (default: next year)")
     parser.add_argument("--sites", default=",".join(r.site for r in DEMO_RUNS), metavar="A,B",
                         help="which demo sites (default all: sandwren,larchfold,quillfield)")  # fmt: skip
+    add_engine_options(parser, divisions=False)  # each site's divisions are its own (DEMO_RUNS)
     add_output_options(parser)
 
 
@@ -87,12 +94,21 @@ def run_demo(
     out_dir: str | Path,
     *,
     sites: list[str] | None = None,
-    samples: int = 200,
+    options=None,
+    window_options=None,
     visit_year: int | None = None,
     progress=None,
 ) -> list[dict]:
-    """Run the demo into ``out_dir``; returns one summary dict per site (paths, counts, seconds)."""
+    """Run the demo into ``out_dir``; returns one summary dict per site (paths, counts, seconds).
+
+    ``options`` and ``window_options`` are the engine's :class:`~lightpath.light.options.ScanOptions`
+    and :class:`~lightpath.light.options.WindowOptions` (defaults when None); each site's number of
+    divisions comes from :data:`DEMO_RUNS`.
+    """
+    from dataclasses import replace
+
     from lightpath.commands.year import year_document
+    from lightpath.light.options import ScanOptions, WindowOptions
     from lightpath.present.scene_report import make_report
     from lightpath.scene import demo_scene_path, load_scene
     from lightpath.site.report import scene_summary
@@ -108,12 +124,16 @@ def run_demo(
     if unknown:
         raise InputError(f"--sites: {unknown[0]!r} is not one of {', '.join(runs)}")
     visit_year = visit_year or _dt.date.today().year + 1
+    options = options if options is not None else ScanOptions()
+    window_options = window_options if window_options is not None else WindowOptions()
     rows = []
     for name in chosen:
         demo = runs[name]
         started = time.perf_counter()
         scene = load_scene(demo_scene_path(name))
-        summary = scene_summary(scene, sample_target(scene.target, count=samples, seed=0))
+        summary = scene_summary(
+            scene, sample_target(scene.target, count=window_options.samples, seed=window_options.seed)
+        )
         write_text_atomic(out / name / "inspect.json", json.dumps(to_jsonable(summary), indent=2) + "\n")
         step(1)
         with warnings.catch_warnings(record=True) as caught:  # accuracy notices: kept once, in the summary
@@ -127,8 +147,8 @@ def run_demo(
         write_text_atomic(out / name / "year.json", json.dumps(to_jsonable(year_doc), indent=2) + "\n")
         step(1)
         result = make_report(scene, demo.year, out_dir=out / name, visit_year=visit_year,
-                             drift_years=list(demo.drift_years), parts=demo.parts, samples=samples,
-                             progress=step)  # fmt: skip
+                             drift_years=list(demo.drift_years), options=replace(options, parts=demo.parts),
+                             window_options=window_options, progress=step)  # fmt: skip
         rows.append(
             {
                 "site": name,
@@ -151,12 +171,12 @@ def run_demo(
 
 def run(args: argparse.Namespace) -> int:
     sites = [s.strip() for s in str(args.sites).split(",") if s.strip()]
-    if args.samples < 1 or args.samples > 100_000:
-        raise InputError(f"--samples: {args.samples} is not a whole number in 1..100000")
+    window_options, options = engine_options(args)
     started = time.perf_counter()
     total = len(sites) * (2 + 6 + 3 + 2)
     with progress_bar("demo", total, args.quiet) as advance:
-        rows = run_demo(args.out, sites=sites, samples=args.samples, visit_year=args.visit_year, progress=advance)
+        rows = run_demo(args.out, sites=sites, options=options, window_options=window_options,
+                        visit_year=args.visit_year, progress=advance)  # fmt: skip
     seconds = round(time.perf_counter() - started, 1)
     index = Path(args.out) / "index.html"
     if args.json:

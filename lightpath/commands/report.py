@@ -13,7 +13,7 @@ Writes ``DIR/report.html`` (figures embedded, opens with no network), ``events.c
 >>> p = argparse.ArgumentParser(); add_arguments(p)
 >>> a = p.parse_args(["s.toml", "--year", "3200 BC", "--out", "r"])
 >>> a.samples, a.resolution, a.criterion
-(400, 0.1, 'first-gleam')
+(400, 0.05, 'first-gleam')
 """
 
 from __future__ import annotations
@@ -21,59 +21,21 @@ from __future__ import annotations
 import argparse
 import sys
 
-from lightpath.commands._common import add_output_options, print_json, progress_bar
+from lightpath.commands._common import (
+    add_engine_options,
+    add_output_options,
+    engine_options,
+    print_json,
+    progress_bar,
+    settings_line,
+    to_jsonable,
+)
 from lightpath.errors import InputError
 
-__all__ = ["HELP", "NAME", "add_arguments", "add_engine_options", "engine_options", "run"]
+__all__ = ["HELP", "NAME", "add_arguments", "run", "stage_count"]
 
 NAME = "report"
 HELP = "write a self-contained HTML report (tables, figures, cautions) with CSV/JSON tables and figure files"
-
-
-def add_engine_options(parser: argparse.ArgumentParser, samples: int = 400) -> None:
-    """The engine's options shared by ``report`` and ``visit``."""
-    from lightpath.light.disc import CRITERIA
-    from lightpath.sky.divisions import SCHEMES
-    from lightpath.sky.sources import SOURCES
-
-    parser.add_argument(
-        "--criterion",
-        choices=tuple(CRITERIA),
-        default="first-gleam",
-        help="how much of the Sun's disc a point must see to count as lit (default first-gleam)",
-    )
-    parser.add_argument(
-        "--scheme",
-        choices=SCHEMES,
-        default="longitude",
-        help="definition of the divisions of the year (default longitude)",
-    )
-    parser.add_argument("--parts", type=int, default=8, metavar="N", help="divisions of the year (default 8)")
-    parser.add_argument(
-        "--samples", type=int, default=samples, metavar="K", help=f"points sampled on the target (default {samples})"
-    )
-    parser.add_argument("--seed", type=int, default=0, help="random-number-generator seed of the samples (default 0)")
-    parser.add_argument(
-        "--resolution",
-        type=float,
-        default=0.1,
-        metavar="DEG",
-        help="sky-window cell size, degrees (default 0.1: start/end times within about 15 s)",
-    )
-    parser.add_argument("--source", choices=SOURCES, default="auto", help="Sun position source (default auto)")
-    parser.add_argument("--cache", metavar="DIR", help="folder to keep sky windows in between runs")  # fmt: skip
-
-
-def engine_options(args: argparse.Namespace) -> dict:
-    """The engine keyword arguments from parsed options, checked."""
-    if args.samples < 1 or args.samples > 1_000_000:
-        raise InputError(f"--samples: {args.samples} is not a whole number in 1..1000000")
-    if not 0.005 <= args.resolution <= 2.0:
-        raise InputError(f"--resolution: {args.resolution:g} is outside 0.005..2 degrees")
-    return dict(
-        criterion=args.criterion, scheme=args.scheme, parts=args.parts, samples=args.samples, seed=args.seed,
-        source=args.source, resolution_deg=args.resolution, cache_dir=args.cache,
-    )  # fmt: skip
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -116,11 +78,14 @@ def run(args: argparse.Namespace) -> int:
     year = year_from_label(args.year, what="--year")
     visit_year = _visit_year(args.visit_year)
     drift = parse_years(args.drift, option="--drift") if args.drift else None
-    options = engine_options(args)
+    if drift is not None and len(drift) < 2:
+        raise InputError("--drift: give at least two years (START:END:STEP)")
+    window_options, options = engine_options(args)
     formats = ("png",) if args.no_svg else ("png", "svg")
     with progress_bar("report", stage_count(visit_year is not None, drift is not None), args.quiet) as advance:
         out = make_report(args.scene, year, out_dir=args.out, visit_year=visit_year, drift_years=drift,
-                          formats=formats, progress=advance, **options)  # fmt: skip
+                          formats=formats, progress=advance, options=options,
+                          window_options=window_options)  # fmt: skip
     if not args.quiet:
         for notice in out.warnings:
             print(f"notice: {notice}", file=sys.stderr)
@@ -128,6 +93,8 @@ def run(args: argparse.Namespace) -> int:
         print_json(
             {
                 "scene": out.scan.scene,
+                "settings": to_jsonable(out.scan.settings),
+                "settings_line": settings_line(out.scan.settings),
                 "notices": out.warnings,
                 "files": {name: str(path) for name, path in out.paths.items()},
                 "events": sum(len(y.events) for y in out.scan.years),
@@ -138,6 +105,7 @@ def run(args: argparse.Namespace) -> int:
     else:
         events = sum(len(y.events) for y in out.scan.years)
         print(f"{out.scan.scene}: {events} light event(s) in {args.year}")
+        print(f"  settings: {settings_line(out.scan.settings)}")
         if out.visit is not None:
             print(f"  visit {visit_year}: {len(out.visit.events)} event(s); calendar file {out.paths['visit.ics']}")
         print(f"  report: {out.paths['report.html']}")

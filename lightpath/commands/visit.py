@@ -25,8 +25,14 @@ import dataclasses
 import datetime as _dt
 import math
 
-from lightpath.commands._common import add_output_options, print_json, progress_bar
-from lightpath.commands.report import add_engine_options, engine_options
+from lightpath.commands._common import (
+    add_engine_options,
+    add_output_options,
+    engine_options,
+    print_json,
+    progress_bar,
+    settings_line,
+)
 from lightpath.errors import InputError
 
 __all__ = ["HELP", "NAME", "add_arguments", "run", "visit_document"]
@@ -59,6 +65,7 @@ def visit_document(plan) -> dict:
         "latitude_deg": plan.latitude_deg,
         "longitude_deg": plan.longitude_deg,
         "settings": dataclasses.asdict(plan.settings) if plan.settings is not None else None,
+        "settings_line": settings_line(plan.settings) if plan.settings is not None else None,
         "refraction_cases": plan.refraction_cases,
         "sunrise_sunset": "upper limb on the astronomical horizon, refracted",
         "events": visit_rows(plan),
@@ -82,7 +89,7 @@ def run(args: argparse.Namespace) -> int:
         raise InputError("--from/--to: plan at most three years at a time")
     if not (math.isfinite(args.sigma) and 0.0 <= args.sigma <= 1.0):
         raise InputError(f"--sigma: {args.sigma!r} is outside 0..1 degrees")
-    options = engine_options(args)
+    window_options, options = engine_options(args)
     scene = load_scene(args.scene)
     if args.timezone:
         time_zone(args.timezone, option="--timezone")
@@ -92,7 +99,8 @@ def run(args: argparse.Namespace) -> int:
     last = jd_from_local_date(last_day + _dt.timedelta(days=1), zone)
     cases = 3 if args.sigma > 0 and scene.observer.refraction is not None else 1
     with progress_bar("visit", cases, args.quiet) as advance:
-        plan = visit_scene(scene, first, last, refraction_sigma_deg=args.sigma, progress=advance, **options)
+        plan = visit_scene(scene, first, last, options, window_options, refraction_sigma_deg=args.sigma,
+                           progress=advance)  # fmt: skip
     if scene.observer.timezone is None:
         plan.notes.append("The scene gives no time zone: clock times are UTC (set site.timezone or --timezone).")
     if args.ics:
@@ -103,6 +111,8 @@ def run(args: argparse.Namespace) -> int:
         print_json(document)
     else:
         print(visit_text(plan))
+        if plan.settings is not None:
+            print(f"settings: {settings_line(plan.settings)}")
         if args.ics:
             print(f"calendar file: {args.ics}")
     return 0

@@ -8,13 +8,13 @@ Renslow 2018) for lit area, and the Okabe & Ito (2008) palette for lines.
 
 >>> import numpy as np
 >>> from lightpath.light.results import LightMap, YearScan
->>> days = 2461041.5 + np.arange(365.0)           # 2026, UT at local midnight on the prime meridian
+>>> days = 2461041.5 + np.arange(-10.0, 365.0)    # UT at local midnight on the prime meridian, from 2025-12-22
 >>> minutes = np.arange(0.0, 1440.0, 10.0)
->>> area = np.zeros((365, minutes.size)); area[30:40, 50:54] = 0.2
+>>> area = np.zeros((days.size, minutes.size)); area[5:20, 50:54] = 0.2   # a run across 1 January
 >>> scan = YearScan(2026, "gregorian", "test", [], [], LightMap(days, minutes, area))
 >>> fig = light_calendar_figure(scan, longitude_deg=0.0)
 >>> fig.axes[0].get_xlabel()
-'Day of the year (1 = 1 January, Gregorian calendar)'
+'Local apparent day (Gregorian calendar; day 1 = 1 January 2026)'
 
 References
 ----------
@@ -28,7 +28,6 @@ from __future__ import annotations
 
 import io
 import os
-import re
 from collections.abc import Sequence
 from pathlib import Path
 
@@ -40,7 +39,7 @@ from matplotlib.ticker import FuncFormatter, MaxNLocator
 from lightpath.errors import InputError
 from lightpath.files import write_bytes_atomic
 from lightpath.light.results import ScanResult, YearScan
-from lightpath.present.tables import division_label
+from lightpath.present.tables import day_date, division_label
 from lightpath.sky.calendar import julian_day, year_label
 
 __all__ = [
@@ -51,6 +50,7 @@ __all__ = [
     "epoch_drift_figure",
     "figure_bytes",
     "light_calendar_figure",
+    "local_days",
     "new_figure",
     "save_figure",
 ]
@@ -60,8 +60,6 @@ FIGURE_FORMATS = ("png", "svg", "pdf")
 
 #: Okabe & Ito (2008) colour-blind-safe palette (black first dropped: used for the horizon).
 LINE_COLOURS = ("#0072B2", "#E69F00", "#009E73", "#CC79A7", "#56B4E9", "#D55E00", "#F0E442")
-
-_DATE_RE = re.compile(r"^\s*(-?\d{1,6})-(\d{1,2})-(\d{1,2})")
 
 
 def new_figure(width_in: float = 9.0, height_in: float = 5.0) -> Figure:
@@ -91,17 +89,30 @@ def save_figure(fig: Figure, path: str | os.PathLike, dpi: float = 150.0) -> Pat
     return write_bytes_atomic(path, figure_bytes(fig, fmt, dpi))
 
 
-def day_of_year(day_jd_ut: np.ndarray, year: int, calendar: str, longitude_deg: float) -> np.ndarray:
-    """Day of the year (1 = 1 January) of days given as UT at local apparent midnight.
+def local_days(day_jd_ut: np.ndarray, longitude_deg: float) -> np.ndarray:
+    """Local apparent day numbers (integer Julian day numbers) of light-map rows given as UT at local midnight.
 
-    Local mean time is UT + longitude/360 days; local apparent midnight differs from local
-    mean midnight by the equation of time (< 17 min), so rounding gives the local day.
+    Local mean time is UT + longitude/360 days; local apparent midnight differs from local mean midnight
+    by the equation of time (< 17 min), so rounding gives the day.
 
-    >>> day_of_year(np.array([2461041.75, 2461042.75]), 2026, "gregorian", -90.0)  # 90° W: midnight at 06 UT
-    array([1, 2])
+    >>> local_days(np.array([2461041.75, 2461042.75]), -90.0).tolist()   # 90° W: midnight at 06 UT
+    [2461042, 2461043]
     """
-    jan1 = float(julian_day(year, 1, 1, calendar if calendar in ("julian", "gregorian") else "auto"))
-    return np.rint(np.asarray(day_jd_ut, dtype=np.float64) + longitude_deg / 360.0 - jan1).astype(int) + 1
+    return np.rint(np.asarray(day_jd_ut, dtype=np.float64) + longitude_deg / 360.0 + 0.5).astype(np.int64)
+
+
+def day_of_year(day_jd_ut: np.ndarray, year: int, calendar: str, longitude_deg: float) -> np.ndarray:
+    """Day of the year (1 = 1 January; 0, −1, … the December before) of days given as UT at local midnight.
+
+    >>> day_of_year(np.array([2461040.75, 2461041.75, 2461042.75]), 2026, "gregorian", -90.0)
+    array([0, 1, 2])
+    """
+    return local_days(day_jd_ut, longitude_deg) - _jan1_day(year, calendar) + 1
+
+
+def _jan1_day(year: int, calendar: str) -> int:
+    """Julian day number of 1 January of ``year`` (noon of that day)."""
+    return int(round(float(julian_day(year, 1, 1, calendar if calendar in ("julian", "gregorian") else "auto")) + 0.5))
 
 
 def clock_label(hours: float) -> str:
@@ -112,16 +123,6 @@ def clock_label(hours: float) -> str:
     """
     minutes = int(round(float(hours) * 60.0)) % 1440
     return f"{minutes // 60:02d}:{minutes % 60:02d}"
-
-
-def _division_day(date: str, year: int, calendar: str) -> float | None:
-    """Day of the year of a ``YYYY-MM-DD`` date string (astronomical year), or None."""
-    match = _DATE_RE.match(date or "")
-    if not match:
-        return None
-    y, m, d = (int(g) for g in match.groups())
-    cal = calendar if calendar in ("julian", "gregorian") else "auto"
-    return float(julian_day(y, m, d, cal) - julian_day(year, 1, 1, cal)) + 1.0
 
 
 def light_calendar_figure(
@@ -166,14 +167,21 @@ def light_calendar_figure(
         ax.text(0.5, 0.5, "no light reaches the target in this year", transform=ax.transAxes, ha="center")
     ax.set_xlim(day_edges[0], day_edges[-1])
     cal_name = year_scan.calendar.capitalize()
-    ax.set_xlabel(f"Day of the year (1 = 1 January, {cal_name} calendar)")
+    jan1 = _jan1_day(year_scan.year, year_scan.calendar)
+
+    def date_tick(v, _pos):  # the date of day-of-year v (MM-DD), in the year's calendar
+        text = day_date(int(round(v)) + jan1 - 1, year_scan.calendar)
+        return text[-5:] if text else ""
+
+    ax.xaxis.set_major_formatter(FuncFormatter(date_tick))
+    ax.set_xlabel(f"Local apparent day ({cal_name} calendar; day 1 = 1 January {year_label(year_scan.year)})")
     ax.set_ylabel("Local apparent solar time (h)")
     ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _pos: clock_label(v)))
     bar = fig.colorbar(mesh, ax=ax, pad=0.01)
     bar.set_label("Lit fraction of the target" if target_area_m2 else "Lit area of the target (m²)")
     for division in year_scan.divisions:
-        x = _division_day(division.date, year_scan.year, year_scan.calendar)
-        if x is None or not day_edges[0] <= x <= day_edges[-1]:
+        x = float(division.day - jan1 + 1)
+        if not day_edges[0] <= x <= day_edges[-1]:
             continue
         ax.axvline(x, color="#D55E00", lw=0.9, ls="--", alpha=0.9)
         ax.annotate(

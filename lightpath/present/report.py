@@ -39,6 +39,7 @@ from lightpath.present.tables import (
     event_rows,
     rows_to_csv,
     rows_to_html,
+    settings_line,
     tables_document,
 )
 from lightpath.sky.calendar import year_label
@@ -114,8 +115,8 @@ def accuracy_notes(scan: ScanResult) -> list[tuple[str, str]]:
     events = [e for y in scan.years for e in y.events]
     dt = np.array([e.delta_t_s for e in events], dtype=float)
     sigma = np.array([e.delta_t_sigma_s for e in events], dtype=float)
-    if s.delta_t_override_s is not None:
-        dt_text = f"fixed by the user at {s.delta_t_override_s:g} s"
+    if s.delta_t_s is not None:
+        dt_text = f"fixed by the user at {s.delta_t_s:g} s"
     elif dt.size and np.isfinite(dt).any():
         top = float(np.nanmax(sigma))
         digits = 0 if np.nanmax(dt) >= 1000 else 1
@@ -133,10 +134,16 @@ def accuracy_notes(scan: ScanResult) -> list[tuple[str, str]]:
     used = sorted({y.source for y in scan.years if y.source})
     sources = ", ".join(used) if used else s.source
     notes = [
+        ("Settings", settings_line(s)),
+        (
+            "Days",
+            f"{s.day_convention}s at the site; each light run is reported whole, once, under the division "
+            "of the year it belongs to (year Y's divisions run from the December solstice of Y − 1)",
+        ),
         ("Sun position", sources if s.source in ("auto", *used) else f"{s.source}: {sources}"),
         ("ΔT = TT − UT", dt_text + "; it moves UT and civil clock times, hardly the local apparent times"),
         ("Refraction", refraction + "; near the horizon its σ is about 0.18° (Sampson et al. 2003)"),
-        ("Sky-window resolution", f"{s.window_resolution_deg:g}° on the hour-angle/declination grid"),
+        ("Sky-window resolution", f"{s.resolution_deg:g}° on the hour-angle/declination grid"),
         ("Light criterion", f"{s.criterion} of the Sun's disc (0.53° wide)"),
         ("Target samples", f"{s.samples} points (random-number-generator seed {s.seed})"),
         ("Divisions", f"scheme {s.scheme!r}, {s.parts} parts of the year"),
@@ -173,6 +180,7 @@ def report_html(
         f"<script>{_CHECK_SCRIPT}</script></head><body>",
         f"<h1>{html.escape(title)}</h1>",
         f'<p class="muted">Years: {html.escape(years)}. {html.escape(made_with)}</p>',
+        f'<p class="muted" id="settings">Settings: {html.escape(settings_line(scan.settings))}.</p>',
         '<p id="figure-check" class="muted">Figures not checked yet.</p>',
         '<h2 id="cautions">Before you go</h2><div class="caution"><ul>',
         "".join(f"<li>{html.escape(c)}</li>" for c in cautions),
@@ -229,6 +237,7 @@ def write_report(
     step = progress or (lambda n=1: None)
     written: dict[str, Path] = {}
     document = tables_document(scan)
+    document["settings_line"] = settings_line(scan.settings)
     document["accuracy"] = [{"item": k, "value": v} for k, v in (accuracy or accuracy_notes(scan))]
     document["site"] = [{"item": k, "value": v} for k, v in site]
     for table in tables:
@@ -237,10 +246,11 @@ def write_report(
             out / f"{table.name}.csv", rows_to_csv(table.rows, table.columns)
         )
         step(1)
-    written["events.csv"] = write_text_atomic(out / "events.csv", rows_to_csv(event_rows(scan), EVENT_COLUMNS))
+    header = f"# {scan.scene}: {settings_line(scan.settings)}\n"  # a comment line: pandas reads it with comment="#"
+    written["events.csv"] = write_text_atomic(out / "events.csv", header + rows_to_csv(event_rows(scan), EVENT_COLUMNS))
     step(1)
     written["divisions.csv"] = write_text_atomic(
-        out / "divisions.csv", rows_to_csv(division_rows(scan), DIVISION_COLUMNS)
+        out / "divisions.csv", header + rows_to_csv(division_rows(scan), DIVISION_COLUMNS)
     )
     step(1)
     text = json.dumps(document, indent=2, ensure_ascii=False, allow_nan=False, default=_json_default)

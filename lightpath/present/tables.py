@@ -7,7 +7,7 @@ rounded numbers.  The same rows feed the CSV files, the JSON file and the HTML
 report, so they always agree.
 
 >>> from lightpath.light.results import DivisionLight
->>> d = DivisionLight("longitude", 0, "december_solstice", 2461031.1, 2461031, "gregorian", 2461028, 2461034, 7, -3, 3)
+>>> d = DivisionLight("longitude", 0, "december_solstice", 2461396.1, 2461396, "gregorian", 2461393, 2461399, 7, -3, 3)
 >>> row = division_row(d, 2027)
 >>> row["date"], row["first_date"], row["days_lit"], row["first_offset_days"]
 ('2026-12-21', '2026-12-18', 7, -3)
@@ -43,6 +43,7 @@ __all__ = [
     "event_rows",
     "rows_to_csv",
     "rows_to_html",
+    "settings_line",
     "tables_document",
     "ut_label",
 ]
@@ -286,3 +287,20 @@ def tables_document(scan: ScanResult, timezone: str | None = None) -> dict[str, 
         "divisions": division_rows(scan),
         "notes": list(scan.notes) + [n for y in scan.years for n in y.notes],
     }
+
+
+def settings_line(settings) -> str:
+    """The engine's settings in one line, printed beside every result (samples and cell size first).
+
+    ``settings`` is a :class:`~lightpath.light.results.ScanSettings`.
+
+    >>> from lightpath.light.results import ScanSettings
+    >>> settings_line(ScanSettings("first-gleam", "longitude", 8, 400, 0, 0.05, "bennett1982", "auto"))[:42]
+    '400 target samples, 0.05° window cells, cr'
+    """
+    dt = "model" if settings.delta_t_s is None else f"{settings.delta_t_s:g} s"
+    return (
+        f"{settings.samples} target samples, {settings.resolution_deg:g}° window cells, criterion "
+        f"{settings.criterion}, {settings.parts} divisions ({settings.scheme}), Sun {settings.source}, ΔT {dt}; "
+        f"days are {settings.day_convention}s"
+    )

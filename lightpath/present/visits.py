@@ -14,7 +14,7 @@ from typing import Any
 from lightpath.present.civil import civil_datetime, time_zone, utc_datetime
 from lightpath.present.ics import CalendarEntry
 from lightpath.present.report import CAUTIONS
-from lightpath.present.tables import division_label
+from lightpath.present.tables import day_date, division_label
 from lightpath.study.visit import VisitEvent, VisitPlan
 
 __all__ = ["VISIT_COLUMNS", "visit_entries", "visit_row", "visit_rows", "visit_text"]
@@ -34,7 +34,7 @@ VISIT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("sunset", "Sunset"),
     ("duration_min", "Duration (min)"),
     ("peak_fraction", "Peak lit fraction"),
-    ("nearest_division", "Nearest division"),
+    ("division", "Division of its light run"),
     ("offset_days", "Days from division"),
     ("cases_with_light", "Refraction cases with light"),
     ("utc_offset", "UTC offset"),
@@ -71,9 +71,10 @@ def visit_row(visit: VisitEvent, zone_name: str | None) -> dict[str, Any]:
         "sunset": _clock(visit.sunset_jd_ut, zone),
         "duration_min": round(float(e.duration_min), 1),
         "peak_fraction": round(float(e.peak_fraction), 3),
-        "nearest_division": e.nearest_division,
-        "nearest_division_label": division_label(e.nearest_division),
-        "offset_days": round(float(e.offset_days), 1),
+        "division": e.division,
+        "division_label": division_label(e.division),
+        "offset_days": int(e.offset_days),
+        "local_apparent_date": day_date(e.day, e.calendar),
         "cases_with_light": visit.cases_with_light,
         "utc_offset": peak.strftime("%z")[:3] + ":" + peak.strftime("%z")[3:],
         "start_iso": civil_datetime(visit.start_jd_ut, zone).isoformat(timespec="seconds"),
@@ -120,7 +121,7 @@ def visit_entries(plan: VisitPlan) -> list[CalendarEntry]:
                 f"With refraction's spread: start between {row['earliest_start']} and {row['latest_start']}, "
                 f"end between {row['earliest_end']} and {row['latest_end']}.",
                 f"Sunrise {row['sunrise'] or '—'}, sunset {row['sunset'] or '—'}. "
-                f"{row['offset_days']:+.1f} days from the {row['nearest_division_label']}.",
+                f"{row['offset_days']:+d} days from the {row['division_label']} (its light run's division).",
                 *CAUTIONS,
             ]
         )

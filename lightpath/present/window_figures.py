@@ -26,7 +26,6 @@ Pearson, K. (1901). On lines and planes of closest fit to systems of points in s
 from __future__ import annotations
 
 from collections.abc import Sequence
-from typing import Any
 
 import numpy as np
 from matplotlib import colormaps
@@ -34,6 +33,7 @@ from matplotlib.figure import Figure
 
 from lightpath.errors import InputError
 from lightpath.present.figures import LINE_COLOURS, new_figure
+from lightpath.study.window_outline import centred_azimuth, circular_mean_deg, window_outlines
 
 __all__ = [
     "centred_azimuth",
@@ -45,73 +45,10 @@ __all__ = [
 ]
 
 
-def centred_azimuth(azimuth_deg: np.ndarray, centre_deg: float) -> np.ndarray:
-    """Azimuths moved into ``centre_deg ± 180°`` so a window across north draws in one piece.
-
-    >>> centred_azimuth(np.array([350.0, 10.0]), 0.0).tolist()
-    [-10.0, 10.0]
-    """
-    return (np.asarray(azimuth_deg, dtype=float) - centre_deg + 180.0) % 360.0 - 180.0 + centre_deg
-
-
-def _circular_mean_deg(azimuth_deg: np.ndarray) -> float:
-    a = np.radians(azimuth_deg[np.isfinite(azimuth_deg)])
-    if a.size == 0:
-        return 180.0
-    return float(np.degrees(np.arctan2(np.sin(a).mean(), np.cos(a).mean())) % 360.0)
-
-
 def _break_jumps(x: np.ndarray, y: np.ndarray, jump_deg: float = 90.0) -> tuple[np.ndarray, np.ndarray]:
     """Insert nan where consecutive x values jump (a wrap), so lines are not drawn across the chart."""
     cut = np.nonzero(np.abs(np.diff(x)) > jump_deg)[0] + 1
     return np.insert(x, cut, np.nan), np.insert(y, cut, np.nan)
-
-
-def window_outlines(window: Any, min_fraction: float = 0.0) -> list[tuple[np.ndarray, np.ndarray]]:
-    """Outlines, in azimuth/altitude (degrees), of the sky seen by more than ``min_fraction`` of the target.
-
-    ``window`` is the engine's :class:`lightpath.light.window.SkyWindow` (raw escape masks of every
-    sample on the site-fixed hour-angle/declination grid; the horizon is not in it).  The share of the
-    target's area that sees each cell is contoured (contourpy's marching squares) between cell centres,
-    and the contour lines are turned from (H, δ) into azimuth/altitude (Meeus 1998 eqs. 13.5-13.6).
-    ``min_fraction=0`` outlines the sky seen from any part of the target.
-    """
-    import contourpy
-
-    from lightpath.light.grid import enu_from_hadec
-
-    grid = window.grid
-    escape = np.asarray(window.escape, dtype=bool)
-    s_idx, i_idx, j_idx = np.nonzero(escape)
-    if s_idx.size == 0:
-        return []
-    k = np.mod(window.h0[s_idx] + i_idx - window.wrap_cells, grid.n_h)
-    j = window.d0[s_idx] + j_idx
-    cell = k.astype(np.int64) * grid.n_d + j
-    pairs = np.unique(s_idx.astype(np.int64) * (grid.n_h * grid.n_d) + cell)  # each sample counts a cell once
-    sample, cell = np.divmod(pairs, grid.n_h * grid.n_d)
-    weight = np.asarray(window.area_m2, dtype=float)[sample] / float(np.sum(window.area_m2))
-    k, j = np.divmod(cell, grid.n_d)
-    # Hour angles unwrapped around their circular mean, so a window across H = ±180° stays in one piece.
-    h = centred_azimuth(np.asarray(grid.h_center(k), dtype=float), _circular_mean_deg(grid.h_center(k) % 360.0))
-    h_min, j_min = float(h.min()), int(j.min())
-    kk = np.rint((h - h_min) / grid.resolution_deg).astype(np.int64) + 1  # one empty cell of padding round it
-    jj = j - j_min + 1
-    share = np.zeros((kk.max() + 2, jj.max() + 2))
-    np.add.at(share, (kk, jj), weight)
-    h_axis = h_min + (np.arange(share.shape[0]) - 1) * grid.resolution_deg
-    d_axis = np.asarray(grid.d_center(np.arange(share.shape[1]) + j_min - 1), dtype=float)
-    # "Seen by any sample": half the smallest sample's share puts the line midway between cell centres.
-    level = min_fraction if min_fraction > 0 else 0.5 * float(weight.min())
-    lines = contourpy.contour_generator(d_axis, h_axis, share, line_type="Separate").lines(level)
-    out = []
-    for line in lines:
-        d_deg, h_deg = line[:, 0], line[:, 1]
-        v = enu_from_hadec(grid.latitude_deg, h_deg, d_deg)
-        azimuth = np.degrees(np.arctan2(v[:, 0], v[:, 1])) % 360.0
-        altitude = np.degrees(np.arcsin(np.clip(v[:, 2], -1.0, 1.0)))
-        out.append((azimuth, altitude))
-    return out
 
 
 def sky_window_figure(
@@ -138,7 +75,7 @@ def sky_window_figure(
         raise InputError("sky-window chart: no window outline to draw (the opening sees no sky?)")
     all_az = np.concatenate([np.asarray(a, dtype=float) for a, _ in outlines])
     all_alt = np.concatenate([np.asarray(h, dtype=float) for _, h in outlines])
-    centre = _circular_mean_deg(all_az)
+    centre = circular_mean_deg(all_az)
     az_c = centred_azimuth(all_az, centre)
     x_low, x_high = np.nanmin(az_c) - margin_deg, np.nanmax(az_c) + margin_deg
     y_low = max(-5.0, np.nanmin(all_alt) - margin_deg)
