@@ -119,12 +119,13 @@ def test_horizon_offset_and_light_map_on_the_passage():
 
     The bent passage's light comes with the Sun about 5° up over a skyline near 2° (its README): a skyline
     raised by 4° hides part of it."""
-    from lightpath.light.scan import scan_window
+    from lightpath.light.options import Conditions
+    from lightpath.light.scan import scan_window, scan_year
 
     scene = load_scene(demo_scene_path("larchfold"))
     window = prepare_window(scene, samples=40, seed=1)
     base = scan_window(window, scene.observer, [-2599], with_light_map=True).years[0]
-    high = scan_window(window, scene.observer, [-2599], horizon_offset_deg=4.0).years[0]
+    high = scan_year(window, scene.observer, -2599, conditions=Conditions(horizon_offset_deg=4.0))
     assert base.events
     total = sum(e.duration_min for e in base.events)
     assert sum(e.duration_min for e in high.events) < total

@@ -17,13 +17,19 @@ import pytest
 from test_light_geometry import _lens_fraction, tube_scene
 
 from lightpath.light.disc import CRITERIA
-from lightpath.light.scan import sun_for
 from lightpath.light.search import runs_above
 from lightpath.light.sweep import find_light
 from lightpath.light.window import compute_window
 from lightpath.sky.calendar import julian_day
 from lightpath.sky.observer import Observer
 from lightpath.sky.vectors import enu_from_azalt
+
+
+def _direct_sun(observer, source="auto"):
+    """The Sun computed directly (no track), for checking the sweep on its own."""
+    from lightpath.sky.sun import sun_position
+
+    return lambda jd_tt: sun_position(jd_tt, observer, source=source)
 
 
 def _predicted_runs(sun, axis, jd0, jd1, radius_deg, step_s=5.0):
@@ -97,7 +103,7 @@ def test_tube_light_matches_the_sun_model(year, latitude_deg, hour_angle_deg, de
     observer = Observer(latitude_deg=latitude_deg, longitude_deg=10.0, refraction="bennett1982")
     mesh, opening, axis, end = tube_scene(latitude_deg, hour_angle_deg, declination_deg)
     window = compute_window(mesh, end[None], axis[None], [1.0], latitude_deg, opening=opening)
-    sun = sun_for(observer, source)
+    sun = _direct_sun(observer, source)
     theta = math.degrees(math.atan(0.3 / 30.0))  # the tube's angular radius (256-gon: 0.99992 of it)
     semi = 959.63 / 3600.0  # the engine's mean semidiameter (Auwers 1891)
     jd0 = float(julian_day(year, 1, 1.0))
@@ -128,11 +134,11 @@ def _brute_force_days(scene, window, year, criterion):
     reach (geometry only); a ray per sample per disc point (64) at each.
     """
     from lightpath.light.bruteforce import brute_force_fraction, brute_force_lit_area, opening_reach
-    from lightpath.light.events import local_day_number
+    from lightpath.light.runs import local_day_number
     from lightpath.light.sweep import sun_enu
     from lightpath.sky.calendar import julian_day as jd_of
 
-    sun = sun_for(scene.observer)
+    sun = _direct_sun(scene.observer)
     t = np.arange(float(jd_of(year, 1, 1.0)) - 1.0, float(jd_of(year + 1, 1, 1.0)) + 1.0, 1.0 / 1440.0)
     pos, dirs = sun_enu(sun, t)
     keep = (np.asarray(pos.altitude_deg) > -1.0) & opening_reach(window.points_m, scene.opening, dirs)
@@ -150,14 +156,14 @@ def _brute_force_days(scene, window, year, criterion):
 
 @pytest.mark.parametrize("site", sorted(DEMO_EPOCHS))
 def test_demo_site_window_path_matches_brute_force(site):
-    from lightpath.light.events import local_day_number
+    from lightpath.light.runs import local_day_number
     from lightpath.light.scan import prepare_window
     from lightpath.scene import demo_scene_path, load_scene
 
     scene = load_scene(demo_scene_path(site))
     window = prepare_window(scene, samples=6, seed=3)
     year = DEMO_EPOCHS[site]
-    sun = sun_for(scene.observer)
+    sun = _direct_sun(scene.observer)
     jd0, jd1 = float(julian_day(year, 1, 1.0)) - 1.0, float(julian_day(year + 1, 1, 1.0)) + 1.0
     fast = find_light(window, sun, jd0, jd1, "first-gleam")
     peaks = sun(np.array([x.peak_jd_tt for x in fast]))

@@ -31,13 +31,13 @@ def test_june_solstice_slit_loses_the_sun_as_obliquity_falls():
     year0 = -2999
     div = division_of("june_solstice", year=year0)
     window, axis = slit_window(round(div.sunrise_azimuth_deg - 0.6, 2), **LOW_SLIT)
-    light = LightDays(window, SITE, span_days=10)
+    light = LightDays(window, SITE)
     res = alignment_epochs(light, division="june_solstice", from_year=year0, to_year=1001, step_years=1000,
                            axis_enu=axis, tolerances=Tolerances(opening_azimuth_deg=0.2), draws=8, seed=1)  # fmt: skip
     assert [r.year for r in res.rows] == [-2999, -1999, -999, 1, 1001]
     assert res.rows[0].inside and res.rows[0].nearest_day == 0.0
     assert not res.rows[-1].inside and res.rows[-1].first_day is None  # no light near the solstice any more
-    assert res.spans_inside[0]["from_year"] == -2999 and res.spans_inside[0]["from"] == "3000 BC"
+    assert res.spans_inside[0]["from_year"] == -2999 and res.spans_inside[0]["to_year"] >= -2999
     assert all(0.0 <= r.probability_inside <= 1.0 for r in res.rows)
     assert res.rows[0].probability_inside > res.rows[-1].probability_inside
     assert float(obliquity_deg(-2999.0)) - float(obliquity_deg(1.0)) > 0.3  # the cause, stated above
@@ -45,10 +45,10 @@ def test_june_solstice_slit_loses_the_sun_as_obliquity_falls():
 
 def test_epochs_bad_input():
     window, axis = slit_window(100.0)
-    light = LightDays(window, SITE, span_days=5)
-    with pytest.raises(InputError, match="--step"):
+    light = LightDays(window, SITE)
+    with pytest.raises(InputError, match="step_years"):
         alignment_epochs(light, division="march_equinox", from_year=0, to_year=100, step_years=0)
-    with pytest.raises(InputError, match="--to"):
+    with pytest.raises(InputError, match="to_year"):
         alignment_epochs(light, division="march_equinox", from_year=100, to_year=0)
-    with pytest.raises(InputError, match="--division: 'equinox'"):
+    with pytest.raises(InputError, match="division: 'equinox'"):
         alignment_epochs(light, division="equinox", from_year=0, to_year=0)

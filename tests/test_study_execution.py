@@ -87,7 +87,7 @@ def test_framing_test_is_the_same_serial_pool_and_dask(dask_client):
 
     div = division_of("cross_quarter_nov")
     window, axis = slit_window(round(div.sunrise_azimuth_deg, 2))
-    light = LightDays(window, SITE, names=("cross_quarter_nov", "march_equinox"), span_days=15)
+    light = LightDays(window, SITE, names=("cross_quarter_nov", "march_equinox"))
     tol = Tolerances(opening_azimuth_deg=1.5, opening_tilt_deg=0.5, target_position_m=0.03, temperature_c=5.0)
     common = dict(year=EPOCH, axis_enu=axis, tolerances=tol, within_days=2, draws=16, null_draws=16, seed=2)
     serial = to_jsonable(framing_test(light, **common))

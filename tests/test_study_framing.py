@@ -13,6 +13,7 @@ from lightpath.commands._common import to_jsonable
 from lightpath.errors import InputError
 from lightpath.light.disc import lit_area
 from lightpath.light.grid import enu_from_hadec
+from lightpath.light.options import ScanOptions
 from lightpath.sky.refraction import apparent_altitude
 from lightpath.sky.riseset import rise_set_azimuths
 from lightpath.sky.sun import sun_position
@@ -45,7 +46,7 @@ def test_statistics_helpers():
 def test_framed_by_construction_then_less_with_tolerance():
     """Aimed at the cross-quarter sunrise: light on the day itself; the probability falls as σ(azimuth) grows."""
     div, window, axis = _aimed("cross_quarter_nov", **LOW_SLIT)
-    light = LightDays(window, SITE, names=("cross_quarter_nov",), span_days=15)
+    light = LightDays(window, SITE, names=("cross_quarter_nov",))
     probabilities = []
     for sigma in (0.0, 1.0, 3.0, 8.0):
         tol = Tolerances(opening_azimuth_deg=sigma, refraction_deg=0.0, delta_t=False)
@@ -86,7 +87,7 @@ def test_null_rate_of_a_narrow_slit_matches_the_closed_form():
     """Null rate = |[a_lo − u, a_hi − l] ∩ arc| / arc ≈ (window width + run) / arc (derived in null_model)."""
     within = 3
     div, window, axis = _aimed("march_equinox", **LOW_SLIT)
-    light = LightDays(window, SITE, names=("march_equinox",), span_days=10)
+    light = LightDays(window, SITE, names=("march_equinox",))
     n = 400
     res = framing_test(light, year=EPOCH, axis_enu=axis, tolerances=Tolerances.zero(), within_days=within,
                        draws=1, null_draws=n, seed=5)  # fmt: skip
@@ -108,7 +109,7 @@ def test_null_rate_of_a_narrow_slit_matches_the_closed_form():
 
 def test_same_seed_same_json_and_statistics_are_consistent():
     _, window, axis = _aimed("cross_quarter_feb")
-    light = LightDays(window, SITE, span_days=20, parts=8)
+    light = LightDays(window, SITE)
     tol = Tolerances(opening_azimuth_deg=1.0, opening_tilt_deg=0.3, target_position_m=0.02)
 
     def run(seed):
@@ -129,11 +130,11 @@ def test_same_seed_same_json_and_statistics_are_consistent():
 
 def test_bad_inputs():
     _, window, axis = _aimed("cross_quarter_feb")
-    light = LightDays(window, SITE, names=("cross_quarter_feb",), span_days=5)
-    with pytest.raises(InputError, match="--within"):
-        framing_test(light, year=EPOCH, axis_enu=axis, within_days=6, draws=1, null_draws=1)
-    bad = LightDays(window, SITE, names=("midsummer",), span_days=5)
-    with pytest.raises(InputError, match="--division: 'midsummer'"):
+    light = LightDays(window, SITE, names=("cross_quarter_feb",))
+    with pytest.raises(InputError, match="within_days"):
+        framing_test(light, year=EPOCH, axis_enu=axis, within_days=61, draws=1, null_draws=1)
+    bad = LightDays(window, SITE, names=("midsummer",))
+    with pytest.raises(InputError, match="division: 'midsummer'"):
         framing_test(bad, year=EPOCH, axis_enu=axis, draws=1, null_draws=1)
-    with pytest.raises(InputError, match="--span"):
-        LightDays(window, SITE, span_days=0)
+    with pytest.raises(InputError, match="parts"):
+        LightDays(window, SITE, ScanOptions(parts=1))

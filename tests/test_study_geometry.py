@@ -15,11 +15,11 @@ from lightpath.light.sweep import find_light
 from lightpath.light.window import compute_window
 from lightpath.site.builders import Slot, slit_shrine
 from lightpath.site.sampling import sample_target
-from lightpath.sky.deltat import ut_from_tt
 from lightpath.sky.divisions import divisions
 from lightpath.sky.observer import Observer
 from lightpath.sky.sun import sun_position
-from lightpath.study.light_days import LightDays, area_centroid_m, light_runs
+from lightpath.site.targets import area_centroid_m
+from lightpath.study.light_days import LightDays
 
 SITE = Observer(latitude_deg=30.0, longitude_deg=31.0, elevation_m=0.0)
 EPOCH = -1499  # 1500 BC
@@ -54,45 +54,29 @@ def slit_window(
     return window, axis
 
 
-def test_light_runs_nearest_and_run():
-    days = np.arange(-3, 4)
-    lit = np.array(
-        [
-            [0, 1, 1, 0, 0, 1, 1],  # nearest lit day: -1 (tie with +2? no: |−1| < |2|), run −2..−1
-            [1, 0, 0, 0, 0, 0, 1],  # tie |−3| = |3|: the earlier one
-            [0, 0, 0, 1, 1, 1, 0],  # day 0 lit: its run 0..2
-            [0, 0, 0, 0, 0, 0, 0],
-        ],
-        bool,
-    )
-    out = light_runs(lit, days)
-    assert out[:3].tolist() == [[-1, -2, -1], [-3, -3, -3], [0, 0, 2]]
-    assert np.isnan(out[3]).all()
+def test_light_days_match_the_engine_sweep_with_a_direct_sun():
+    """The study's days of light equal the engine's sweep run with the Sun computed directly (no track)."""
+    from lightpath.light.runs import local_day_number
 
-
-def test_light_days_match_the_engine_sweep():
-    """The study's day search finds the same days of light as the engine's own sweep (find_light)."""
     div = division_of("cross_quarter_nov")
     window, _ = slit_window(round(div.sunrise_azimuth_deg, 3))
-    light = LightDays(window, SITE, names=("cross_quarter_nov",), span_days=15)
+    light = LightDays(window, SITE, names=("cross_quarter_nov",))
     runs = light.evaluate(EPOCH)
     assert runs[0, 0] == 0.0  # aimed at the division's sunrise: light on the day itself
 
     def sun(jd_tt):
         return sun_position(jd_tt, SITE)
 
-    intervals = find_light(window, sun, div.jd_tt - 16.0, div.jd_tt + 16.0, "first-gleam")
-    lon_d = SITE.longitude_deg / 360.0
-    day0 = np.floor(float(ut_from_tt(div.jd_tt)) + lon_d + 0.5)
-    engine_days = sorted({int(np.floor(float(ut_from_tt(i.peak_jd_tt)) + lon_d + 0.5) - day0) for i in intervals})
-    engine_days = [d for d in engine_days if -15 <= d <= 15]
+    intervals = find_light(window, sun, div.jd_tt - 40.0, div.jd_tt + 40.0, "first-gleam")
+    peaks = sun(np.array([i.peak_jd_tt for i in intervals]))
+    days = local_day_number(peaks.jd_ut, SITE.longitude_deg, peaks.local_apparent_time_h)
+    day0 = int(light.division_days(EPOCH)[0])
+    engine_days = sorted({int(d) - day0 for d in days})
     first, last = int(runs[0, 1]), int(runs[0, 2])
     assert engine_days, "the engine finds light too"
-    # the run around the division is the engine's run of consecutive days around day 0
-    assert first in engine_days and last in engine_days
+    # the division's run is the engine's run of consecutive days around day 0
     assert all(d in engine_days for d in range(first, last + 1))
-    assert (first - 1 not in engine_days) or first == -15
-    assert (last + 1 not in engine_days) or last == 15
+    assert first - 1 not in engine_days and last + 1 not in engine_days
 
 
 def test_window_sees_where_it_was_aimed():
@@ -100,20 +84,6 @@ def test_window_sees_where_it_was_aimed():
     azimuth = np.degrees(np.arctan2(axis[0], axis[1])) % 360
     assert azimuth == pytest.approx(100.0, abs=1e-6)
     assert window.escape.any()
-
-
-def test_hourly_track_interpolates_the_sun():
-    """The per-year hourly track, interpolated, gives the Sun of lightpath.sky.sun to 0.001°."""
-    window, _ = slit_window(100.0)
-    light = LightDays(window, SITE, names=("cross_quarter_feb",), span_days=3)
-    track = light._track(EPOCH)
-    hours = np.array([[5.25, 6.6, 7.9, 12.0, 16.3]])
-    az, alt = light._sun_at(track.hourly_h[0, 2:3], track.hourly_dec[0, 2:3], hours)
-    jd_ut = track.midnight_ut[0, 2] + hours[0] / 24.0
-    dt = track.delta_t_s[0]
-    pos = sun_position(jd_ut + dt / 86400.0, SITE, delta_t_s=dt)
-    assert np.allclose(alt[0], pos.altitude_geometric_deg, atol=1e-3)
-    assert np.allclose(((az[0] - pos.azimuth_deg + 180) % 360) - 180, 0.0, atol=1e-3)
 
 
 def test_position_shift_as_rotation_matches_a_recast_window():

@@ -2,8 +2,8 @@
 
 Examples (shell)::
 
-    lightpath epochs passage/scene.toml --division december_solstice --from "4000 BC" --to "1000 BC" --step 100
-    lightpath epochs shrine/scene.toml --division cross_quarter_aug --from -3000 --to 0 --draws 50 --json
+    lightpath epochs demo_models/sandwren/scene.toml --division cross_quarter_feb --from "2500 BC" --to "500 BC"
+    lightpath epochs demo_models/larchfold/scene.toml --parts 16 --division division_3_of_16 --from -3000 --to -2000
 
 For every year from Y1 to Y2 (step S) the run of light days nearest the division, for the surveyed geometry
 and its spread over Monte Carlo draws of the scene's tolerances, and the spans of years during which the
@@ -20,7 +20,7 @@ from __future__ import annotations
 import argparse
 
 from lightpath.commands._common import progress_bar
-from lightpath.commands.frame import _emit, add_study_options, open_study, study_backend
+from lightpath.commands.frame import STUDY_FLAGS, add_study_options, as_option_error, emit, open_study, study_backend
 from lightpath.errors import InputError
 
 __all__ = ["HELP", "NAME", "add_arguments", "format_text", "run"]
@@ -44,11 +44,14 @@ def _days(x) -> str:
 
 def format_text(result, backend: str) -> list[str]:
     """The human-readable report of an :class:`~lightpath.study.epochs.EpochsResult`."""
+    from lightpath.present.tables import day_date, division_label
+    from lightpath.sky.calendar import year_label
+
     tol = ", ".join(f"{k} {v:g}" for k, v in result.tolerances.items() if not isinstance(v, bool) and v)
     lines = [
         f"alignment epochs  {result.scene}",
-        f"division          {result.division} (scheme {result.scheme}, {result.parts} parts); criterion "
-        f"{result.criterion}; search ±{result.span_days} days",
+        f"division          {division_label(result.division)} (scheme {result.scheme}, {result.parts} parts); "
+        f"criterion {result.criterion}; the light runs that belong to it",
         f"draws             {result.draws} per year, seed {result.seed}; tolerances {tol or 'none'}; ran on {backend}",
         "",
         f"{'year':>9} {'date':<12} {'first':>6} {'last':>6} {'inside':>6} {'P(inside)':>9} "
@@ -59,12 +62,13 @@ def format_text(result, backend: str) -> list[str]:
         f_rng = "-" if fp["p5"] is None else f"{fp['p5']:+.0f}..{fp['p95']:+.0f}"
         l_rng = "-" if lp["p5"] is None else f"{lp['p5']:+.0f}..{lp['p95']:+.0f}"
         lines.append(
-            f"{r.label:>9} {r.division_date:<12} {_days(r.first_day):>6} {_days(r.last_day):>6} "
+            f"{year_label(r.year):>9} {day_date(r.division_day, r.calendar):<12} {_days(r.first_day):>6} "
+            f"{_days(r.last_day):>6} "
             f"{'yes' if r.inside else 'no':>6} {r.probability_inside:>9.3f} {f_rng:>14} {l_rng:>13}"
         )
 
     def spans(items) -> str:
-        return ", ".join(f"{s['from']} to {s['to']}" for s in items) or "none"
+        return ", ".join(f"{year_label(s['from_year'])} to {year_label(s['to_year'])}" for s in items) or "none"
 
     cal = result.rows[0].calendar if result.rows else ""
     lines += [
@@ -76,7 +80,7 @@ def format_text(result, backend: str) -> list[str]:
         + ", last day "
         + ("-" if result.drift_last_days_per_century is None else f"{result.drift_last_days_per_century:+.2f}")
         + " days per century (least squares)",
-        f"dates: local mean solar days, {cal} calendar, astronomical years; first/last: days from the division's day",
+        f"dates: local apparent days, {cal} calendar, astronomical years; first/last: days from the division's day",
     ]
     lines += [f"note: {n}" for n in result.notes]
     return lines
@@ -101,8 +105,10 @@ def run(args: argparse.Namespace) -> int:
                 distance_m=distance, tolerances=tol, draws=args.draws, seed=args.seed, workers=workers,
                 client=client, progress=advance, scene_label=scene.label,
             )  # fmt: skip
+    except InputError as exc:
+        raise as_option_error(exc, STUDY_FLAGS) from None
     finally:
         if client is not None:
             client.close()
-    _emit(args, result, format_text(result, backend))
+    emit(args, result, format_text(result, backend))
     return 0

@@ -2,8 +2,8 @@
 
 Examples (shell)::
 
-    lightpath frame passage/scene.toml --epoch "3200 BC±100"
-    lightpath frame shrine/scene.toml --epoch -1499 --division cross_quarter_aug --within 5 --draws 1000 --json
+    lightpath frame demo_models/sandwren/scene.toml --epoch "1500 BC±100"
+    lightpath frame demo_models/larchfold/scene.toml --epoch -2599 --parts 16 --within 5 --draws 1000 --json
     lightpath frame site.toml --epoch 2500BC --workers 8
     lightpath frame site.toml --epoch 2500BC --cluster tcp://10.0.0.5:8786
 
@@ -23,39 +23,45 @@ import argparse
 import json
 import os
 
-from lightpath.commands._common import add_output_options, print_json, progress_bar, to_jsonable
+from lightpath.commands._common import (
+    add_engine_options,
+    add_output_options,
+    engine_options,
+    print_json,
+    progress_bar,
+    to_jsonable,
+)
 from lightpath.errors import InputError
 from lightpath.files import write_text_atomic
 
-__all__ = ["HELP", "NAME", "add_arguments", "add_study_options", "open_study", "run", "study_backend"]
+__all__ = [
+    "HELP",
+    "NAME",
+    "STUDY_FLAGS",
+    "add_arguments",
+    "add_study_options",
+    "as_option_error",
+    "emit",
+    "open_study",
+    "run",
+    "study_backend",
+]
 
 NAME = "frame"
 HELP = "framing test: probability that light reaches the target near each division, against a null model"
 
 
 def add_study_options(parser: argparse.ArgumentParser, *, draws: int) -> None:
-    """Options shared by ``frame`` and ``epochs``: window, divisions, tolerances, execution, output."""
-    from lightpath.light.disc import CRITERIA
-    from lightpath.sky.divisions import SCHEMES
-
+    """Options shared by ``frame`` and ``epochs``: the engine's settings, tolerances, execution, output."""
     parser.add_argument("scene", metavar="SCENE.toml", help="the scene file")
-    parser.add_argument("--scheme", choices=SCHEMES, default="longitude", help="how the year is divided")
-    parser.add_argument("--parts", type=int, default=8, metavar="N", help="divisions of the year (default 8)")
-    parser.add_argument("--criterion", choices=tuple(CRITERIA), default="first-gleam", help="what counts as light")
-    parser.add_argument("--span", type=int, default=None, metavar="DAYS",
-                        help="days searched each side of a division (default: half a part, at most 30)")  # fmt: skip
+    add_engine_options(parser, seed_help="seed of the target sampling and of the Monte Carlo draws")
     parser.add_argument("--draws", type=int, default=draws, metavar="N", help=f"Monte Carlo draws (default {draws})")
     parser.add_argument("--tolerance", action="append", default=[], metavar="KEY=VALUE",
                         help="override a one-sigma tolerance of the scene, e.g. opening_azimuth_deg=0.5")  # fmt: skip
-    parser.add_argument("--samples", type=int, default=100, metavar="N", help="target samples (default 100)")
-    parser.add_argument("--resolution", type=float, default=0.05, metavar="DEG", help="window cell, degrees")
-    parser.add_argument("--cache", metavar="DIR", default=None, help="folder to cache sky windows in")
-    parser.add_argument("--source", choices=("auto", "jpl", "vsop87"), default="auto", help="Sun position source")
     parser.add_argument("--workers", type=int, default=os.cpu_count() or 1, metavar="N",
                         help="local worker processes (default: one per CPU)")  # fmt: skip
     parser.add_argument("--cluster", metavar="ADDRESS", default=None,
                         help="run the draws on the dask scheduler at ADDRESS (tcp://host:8786) instead")  # fmt: skip
-    parser.add_argument("--seed", type=int, default=0, help="seed of the Monte Carlo draws (default 0)")
     parser.add_argument("--output", metavar="FILE", default=None, help="also write the JSON result to FILE")
     add_output_options(parser)
 
@@ -91,19 +97,13 @@ def _tolerances(scene, overrides: list[str]):
 def open_study(args: argparse.Namespace, names: tuple[str, ...] | None):
     """(scene, LightDays, axis_enu, distance_m, Tolerances) from the shared options."""
     from lightpath.scene import load_scene
-    from lightpath.study.light_days import default_span_days, light_days_for_scene
+    from lightpath.study.light_days import light_days_for_scene
 
-    if args.parts < 2:
-        raise InputError(f"--parts: {args.parts} must be 2 or more")
-    for option, value, low in (
-        ("--draws", args.draws, 0),
-        ("--samples", args.samples, 1),
-        ("--workers", args.workers, 1),
-    ):
+    window_options, options = engine_options(args)
+    for option, value, low in (("--draws", args.draws, 0), ("--workers", args.workers, 1)):
         if value < low:
             raise InputError(f"{option}: {value} must be {low} or more")
     scene = load_scene(args.scene)
-    span = args.span if args.span is not None else default_span_days(args.parts)
     quiet = args.quiet or args.json
     with progress_bar("sky window", 100, quiet=quiet) as advance:
         done = [0]
@@ -114,12 +114,22 @@ def open_study(args: argparse.Namespace, names: tuple[str, ...] | None):
                 done[0] += step
                 advance(step)
 
-        light, axis, distance = light_days_for_scene(
-            scene, samples=args.samples, resolution_deg=args.resolution, cache_dir=args.cache,
-            progress=window_progress, criterion=args.criterion, scheme=args.scheme, parts=args.parts, names=names,
-            span_days=span, source=args.source,
-        )  # fmt: skip
+        light, axis, distance = light_days_for_scene(scene, window_options, options, names=names,
+                                                     progress=window_progress)  # fmt: skip
     return scene, light, axis, distance, _tolerances(scene, args.tolerance)
+
+
+def as_option_error(exc: InputError, flags: dict[str, str]) -> InputError:
+    """The same one-line error with an API parameter's name (``within_days:``) replaced by its option's."""
+    text = str(exc)
+    for name, flag in flags.items():
+        if text.startswith(name + ":"):
+            return InputError(flag + text[len(name) :])
+    return exc
+
+
+#: API parameters of the studies and the options that set them.
+STUDY_FLAGS = {"within_days": "--within", "division": "--division", "step_years": "--step", "to_year": "--to"}
 
 
 def study_backend(args: argparse.Namespace):
@@ -130,7 +140,8 @@ def study_backend(args: argparse.Namespace):
     return args.workers, client, describe_backend(args.workers, client)
 
 
-def _emit(args, result, text_lines) -> None:
+def emit(args, result, text_lines) -> None:
+    """Print a study's result (text, or JSON with ``--json``) and write ``--output``."""
     doc = to_jsonable(result)
     if args.output:
         write_text_atomic(args.output, json.dumps(doc, indent=2, ensure_ascii=False) + "\n")
@@ -154,8 +165,9 @@ def _range(p: dict) -> str:
     return f"{p['p5']:+.0f}..{p['p95']:+.0f}"
 
 
-def format_text(result, backend: str) -> list[str]:
+def format_text(result, backend: str, light=None) -> list[str]:
     """The human-readable report of a :class:`~lightpath.study.framing.FramingResult`."""
+    from lightpath.present.tables import day_date, division_label
     from lightpath.sky.calendar import year_label
 
     spread = f" ± {result.epoch_sigma_years:g} years (one sigma)" if result.epoch_sigma_years else ""
@@ -164,7 +176,7 @@ def format_text(result, backend: str) -> list[str]:
         f"framing test  {result.scene}",
         f"epoch         {year_label(result.epoch_year)} (astronomical {result.epoch_year}){spread}",
         f"divisions     scheme {result.scheme}, {result.parts} parts; criterion {result.criterion}; framed = light "
-        f"within ±{result.within_days} days (search ±{result.span_days} days)",
+        f"within ±{result.within_days} days, in a light run of that division",
         f"draws         {result.draws} survey draws, {result.null_draws} null orientations, seed {result.seed}; "
         f"ran on {backend}",
         f"tolerances    {tol or 'none'}; ΔT σ {'drawn' if result.tolerances.get('delta_t') else 'off'}",
@@ -172,13 +184,14 @@ def format_text(result, backend: str) -> list[str]:
         f"              reference azimuth {result.null_model['reference_azimuth_deg']:.2f}° "
         f"(opening's axis at {result.facing_azimuth_deg:.2f}°)",
         "",
-        f"{'division':<20} {'date':<12} {'lit run':>10} {'P(framed)':>9} {'95% interval':>14} "
+        f"{'division':<30} {'date':<12} {'lit run':>10} {'P(framed)':>9} {'95% interval':>14} "
         f"{'first p5..p95':>14} {'last p5..p95':>13} {'null':>6} {'any':>6} {'p':>7} {'p(any)':>7} {'h':>6}",
     ]
     for d in result.divisions:
         lo, hi = d.probability_interval
         lines.append(
-            f"{d.name:<20} {d.date:<12} {_days(d.observed_first_day, d.observed_last_day):>10} "
+            f"{division_label(d.name):<30} {day_date(d.day, d.calendar):<12} "
+            f"{_days(d.observed_first_day, d.observed_last_day):>10} "
             f"{d.probability:>9.3f} {f'{lo:.3f}-{hi:.3f}':>14} {_range(d.first_day_percentiles):>14} "
             f"{_range(d.last_day_percentiles):>13} {d.null_rate:>6.3f} {d.null_rate_any:>6.3f} "
             f"{d.p_value:>7.4f} {d.p_value_any:>7.4f} {d.effect_cohen_h:>6.2f}"
@@ -186,11 +199,14 @@ def format_text(result, backend: str) -> list[str]:
     cal = result.divisions[0].calendar if result.divisions else ""
     lines += [
         "",
-        f"dates: local mean solar days, {cal} calendar, astronomical years; day offsets from the division's day",
+        f"dates: local apparent days, {cal} calendar, astronomical years; day offsets from the division's day",
         "P(framed): share of survey draws with light within the window; null / any: share of null orientations "
         "framing this division / any division; p, p(any): (k+1)/(n+1) for a null orientation bringing light at least "
         "as close; h: Cohen's effect size of P(framed) against the null rate",
     ]
+    if light is not None:
+        s = light.window
+        lines.append(f"settings: {s.samples} target samples, {s.resolution_deg:g}° window cells")
     lines += [f"note: {n}" for n in result.notes]
     return lines
 
@@ -206,6 +222,10 @@ def run(args: argparse.Namespace) -> int:
         raise InputError(f"--null-draws: {args.null_draws} must be 0 or more")
     names = None if args.division == "all" else (args.division,)
     scene, light, axis, distance, tol = open_study(args, names)
+    try:
+        light.division_names(year)
+    except InputError as exc:
+        raise as_option_error(exc, STUDY_FLAGS) from None
     workers, client, backend = study_backend(args)
     total = 1 + args.draws + args.null_draws
     try:
@@ -216,8 +236,10 @@ def run(args: argparse.Namespace) -> int:
                 null_draws=args.null_draws, seed=args.seed, workers=workers, client=client, progress=advance,
                 scene_label=scene.label,
             )  # fmt: skip
+    except InputError as exc:
+        raise as_option_error(exc, STUDY_FLAGS) from None
     finally:
         if client is not None:
             client.close()
-    _emit(args, result, format_text(result, backend))
+    emit(args, result, format_text(result, backend, light))
     return 0

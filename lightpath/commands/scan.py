@@ -115,8 +115,10 @@ def _print_table(result, timezone: str | None) -> None:
         print(f"  light runs per division ({s.samples} samples, {s.resolution_deg:g}° cells): date, days, first – last")
         for d in y.divisions:
             row = division_row(d, y.year)
-            span = f"{row['first_date']} – {row['last_date']} ({d.first_offset_days:+d} … {d.last_offset_days:+d})"
-            print(f"    {division_label(d.name):<30} {row['date']:<12} {d.days:4d}  {span if d.days else 'none'}")
+            span = "none"
+            if d.days:
+                span = f"{row['first_date']} – {row['last_date']} ({d.first_offset_days:+d} … {d.last_offset_days:+d})"
+            print(f"    {division_label(d.name):<30} {row['date']:<12} {d.days:4d}  {span}")
         for note in y.notes:
             print(f"  note: {note}")
 

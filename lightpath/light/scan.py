@@ -119,7 +119,7 @@ def prepare_window(
     ----------
     scene : a :class:`lightpath.scene.Scene` or the path of a scene file.
     options : samples, seed, resolution_deg, cache_dir (:class:`~lightpath.light.options.WindowOptions`).
-    window_options : passed to :func:`lightpath.light.window.compute_window` (``coarse_deg``, ``search_deg``, …).
+    window_options : fields of :class:`WindowOptions` laid over ``options``; the rest are passed to :func:`lightpath.light.window.compute_window` (``coarse_deg``, ``search_deg``, …).
 
     Raises
     ------
@@ -127,7 +127,11 @@ def prepare_window(
     """
     from lightpath.site.sampling import sample_target
 
-    o = (options if options is not None else WindowOptions()).check()
+    import dataclasses
+
+    names = {f.name for f in dataclasses.fields(WindowOptions)}
+    mine = {k: window_options.pop(k) for k in list(window_options) if k in names}
+    o = dataclasses.replace(options if options is not None else WindowOptions(), **mine).check()
     scene = _as_scene(scene)
     ts = sample_target(scene.target, count=int(o.samples), seed=int(o.seed))
     window = compute_window(

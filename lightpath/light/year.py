@@ -21,6 +21,7 @@ December solstice) is whole.  Then:
 
 from __future__ import annotations
 
+import functools
 import warnings
 from dataclasses import dataclass
 
@@ -78,10 +79,17 @@ class YearSky:
         return np.atleast_1d(local_day_number(jd_ut, self.observer.longitude_deg, lat_h))
 
 
+@functools.lru_cache(maxsize=256)
+def _divisions(year: int, scheme: str, parts: int, observer: Observer, source: str, calendar: str) -> tuple:
+    """The divisions of one year, memoized: a span of years asks each year three times (Y − 1, Y, Y + 1)."""
+    from lightpath.sky.divisions import divisions
+
+    return tuple(divisions(year, scheme, parts, observer=observer, horizon=None, source=source, calendar=calendar))
+
+
 def year_sky(observer: Observer, year: int, options: ScanOptions) -> YearSky:
     """Sun track and divisions of ``year`` at ``observer`` (see :class:`YearSky`)."""
     from lightpath.sky.deltat import delta_t_s as model_delta_t_s
-    from lightpath.sky.divisions import divisions
 
     year = int(year)
     notes: list[str] = []
@@ -92,8 +100,7 @@ def year_sky(observer: Observer, year: int, options: ScanOptions) -> YearSky:
         for y in (year - 1, year, year + 1):
             if not YEAR_MIN <= y <= YEAR_MAX:
                 continue
-            divs = divisions(y, options.scheme, options.parts, observer=observer, horizon=None,
-                             source=options.source, calendar=options.calendar)  # fmt: skip
+            divs = _divisions(y, options.scheme, int(options.parts), observer, options.source, options.calendar)
             cands += divs
             in_year += [y == year] * len(divs)
         jd_tt = np.array([d.jd_tt for d in cands])
