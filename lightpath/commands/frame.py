@@ -12,7 +12,7 @@ overriding; the epoch's spread comes from ``--epoch Y±S`` (or the scene's ``epo
 ``docs/framing-test.md`` for the method, the null model and how to read the numbers.
 
 >>> p = argparse.ArgumentParser(); add_arguments(p)
->>> a = p.parse_args(["s.toml", "--epoch", "3200 BC", "--tolerance", "opening_azimuth_deg=1"])
+>>> a = p.parse_args(["s.toml", "--epoch", "1500 BC", "--tolerance", "opening_azimuth_deg=1"])
 >>> a.within, a.draws, a.tolerance
 (3, 200, ['opening_azimuth_deg=1'])
 """
@@ -69,7 +69,7 @@ def add_study_options(parser: argparse.ArgumentParser, *, draws: int) -> None:
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     """Options of ``lightpath frame``."""
     add_study_options(parser, draws=200)
-    parser.add_argument("--epoch", required=True, metavar="Y[±S]", help="the building's epoch, e.g. '3200 BC±100'")
+    parser.add_argument("--epoch", required=True, metavar="Y[±S]", help="the building's epoch, e.g. '1500 BC±100'")
     parser.add_argument("--division", default="all", metavar="NAME|all", help="division to test (default all)")
     parser.add_argument("--within", type=int, default=3, metavar="DAYS",
                         help="framed = light on a day within ±DAYS of the division (default 3)")  # fmt: skip

@@ -2,8 +2,8 @@
 
 Examples (shell)::
 
-    lightpath report site.toml --year "3200 BC" --out report/
-    lightpath report site.toml --year -3199 --visit-year 2027 --drift "3500 BC:2900 BC:100" --out report/
+    lightpath report demo_models/larchfold/scene.toml --year "2600 BC" --parts 16 --out report/
+    lightpath report demo_models/sandwren/scene.toml --year -1499 --visit-year 2027 --drift -1799:-1199:100 --out r/
 
 Writes ``DIR/report.html`` (figures embedded, opens with no network), ``events.csv``,
 ``divisions.csv``, ``tables.json``, ``figures/*.png|svg`` and, with ``--visit-year``,
@@ -11,7 +11,7 @@ Writes ``DIR/report.html`` (figures embedded, opens with no network), ``events.c
 
 >>> import argparse
 >>> p = argparse.ArgumentParser(); add_arguments(p)
->>> a = p.parse_args(["s.toml", "--year", "3200 BC", "--out", "r"])
+>>> a = p.parse_args(["s.toml", "--year", "2600 BC", "--out", "r"])
 >>> a.samples, a.resolution, a.criterion
 (400, 0.05, 'first-gleam')
 """
@@ -41,7 +41,7 @@ HELP = "write a self-contained HTML report (tables, figures, cautions) with CSV/
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     """Options of ``lightpath report``."""
     parser.add_argument("scene", metavar="SCENE.toml", help="the scene file")
-    parser.add_argument("--year", required=True, metavar="Y", help="year of the report: -3199, '3200 BC' or 'AD 33'")
+    parser.add_argument("--year", required=True, metavar="Y", help="year of the report: -2599, '2600 BC' or 'AD 33'")
     parser.add_argument("--visit-year", metavar="Y", help="a modern year to plan a visit in (civil times, visit.ics)")
     parser.add_argument(
         "--drift", metavar="START:END:STEP", help="years for the epoch-drift figure, e.g. -3500:-2900:100"

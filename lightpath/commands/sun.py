@@ -2,8 +2,8 @@
 
 Examples (shell)::
 
-    lightpath sun --site 52.91,-8.66,60 --at "3200 BC-12-21T08:00 LAT"
-    lightpath sun --site 52.91,-8.66 --at 2027-02-03T07:00 --to 2027-02-03T09:00 --step 10 --json
+    lightpath sun --site=-29.861,22.814,1183 --at "1500 BC-02-16T18:00 LAT"
+    lightpath sun --site 38.947,-98.412 --at 2027-03-20T12:00 --to 2027-03-20T14:00 --step 10 --json
 
 A table by default; ``--json`` prints one object per instant (a list when ``--to`` is given).
 """
@@ -62,7 +62,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "--at",
         required=True,
         metavar="INSTANT",
-        help="e.g. 2027-02-03T07:40 (UT), 2027-02-03T09:40+02:00, '3200 BC-12-21T08:00 LAT', JD2451545.0, JDE2451545.0",
+        help="e.g. 2027-02-03T07:40 (UT), 2027-02-03T09:40+02:00, '1500 BC-02-16T18:00 LAT', JD2451545.0, JDE2451545.0",
     )
     parser.add_argument("--to", metavar="INSTANT", help="last instant of a run from --at (same forms as --at)")
     parser.add_argument("--step", type=float, metavar="MINUTES", help="spacing of a run (default 60 minutes)")

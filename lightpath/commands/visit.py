@@ -47,7 +47,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--from", dest="from_date", required=True, metavar="DATE", help="first day, YYYY-MM-DD")
     parser.add_argument("--to", dest="to_date", required=True, metavar="DATE", help="last day, YYYY-MM-DD")
     parser.add_argument("--ics", metavar="FILE", help="also write the events as an iCalendar (.ics) file")
-    parser.add_argument("--timezone", metavar="ZONE", help="IANA time zone instead of the scene's (e.g. Europe/Dublin)")
+    parser.add_argument("--timezone", metavar="ZONE", help="IANA time zone instead of the scene's (e.g. Asia/Tokyo)")
     parser.add_argument("--sigma", type=float, default=0.18, metavar="DEG",
                         help="1σ of refraction at the horizon, degrees (default 0.18; 0 = none)")  # fmt: skip
     add_engine_options(parser)

@@ -2,8 +2,9 @@
 
 Examples (shell)::
 
-    lightpath year --site 52.40,-7.90,60 --year "3200 BC" --parts 8
-    lightpath year --site 52.40,-7.90 --year 2027 --parts 16 --scheme days --json
+    lightpath year --site 53.452,104.637,548 --year "2600 BC" --parts 16
+    lightpath year --site 53.452,104.637 --year "2600 BC" --parts 16 --calendar gregorian
+    lightpath year --site 38.947,-98.412 --year 2027 --parts 16 --scheme days --json
     lightpath year --site 47.10,12.30 --year -2499 --horizon skyline.csv --csv divisions.csv
 
 Dates are civil days in local mean solar time at the site (UT + longitude/15 h); see ``docs/divisions.md``.
@@ -60,7 +61,7 @@ _TIME_BASIS = (
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     """Options of ``lightpath year``."""
     parser.add_argument("--site", required=True, metavar="LAT,LON[,ELEV_M]", help="degrees north, degrees east, metres")
-    parser.add_argument("--year", required=True, metavar="Y", help="astronomical year (-3199) or '3200 BC' / 'AD 33'")
+    parser.add_argument("--year", required=True, metavar="Y", help="astronomical year (-2599) or '2600 BC' / 'AD 33'")
     parser.add_argument("--parts", type=int, default=8, metavar="N", help="number of divisions, N >= 2 (default 8)")
     parser.add_argument(
         "--scheme", choices=(*SCHEMES, "all"), default="all", help="definition of the divisions (default all)"
