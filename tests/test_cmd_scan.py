@@ -60,7 +60,7 @@ def test_years_span_with_negative_years_and_csv(capsys, tmp_path):
     code, out, _ = _run(
         capsys, "--years", "-1600:-1400:100", "--samples", "30", "--no-cache", "--quiet", "--csv", str(target)
     )
-    assert code == 0 and "Year 1600 BC" in out  # --quiet silences progress, never results
+    assert code == 0 and "Year 1601 BC" in out  # --quiet silences progress, never results
     lines = target.read_text().splitlines()
     assert lines[0].startswith("# lightpath scan") and "30 target samples, 0.05° window cells" in lines[0]
     rows = list(csv.DictReader(lines[1:]))
