@@ -41,17 +41,18 @@ def main() -> None:
     args = parser.parse_args()
 
     from lightpath.commands._common import to_jsonable
+    from lightpath.light.options import WindowOptions
     from lightpath.scene import demo_scene_path, load_scene
     from lightpath.sky.sources import SunAccuracyWarning
     from lightpath.study.framing import framing_test
-    from lightpath.study.light_days import default_span_days, light_days_for_scene
+    from lightpath.study.light_days import light_days_for_scene
     from lightpath.study.uncertainty import tolerances_from_table
 
     # the framing test states an unverified epoch once in its notes; the bench need not print it per run
     warnings.filterwarnings("ignore", category=SunAccuracyWarning)
     scene = load_scene(demo_scene_path(args.site))
     t0 = time.perf_counter()
-    light, axis, distance = light_days_for_scene(scene, samples=args.samples, span_days=default_span_days(8))
+    light, axis, distance = light_days_for_scene(scene, WindowOptions(samples=args.samples))
     print(f"site {args.site}: window of {args.samples} samples built in {time.perf_counter() - t0:.2f} s (not timed)")
     light.evaluate(EPOCHS[args.site])  # disc fractions of the window: computed once, shipped with it
     tol = tolerances_from_table(scene.tolerances)

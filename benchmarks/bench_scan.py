@@ -33,8 +33,8 @@ import trimesh
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 from lightpath.light.bruteforce import brute_force_fraction, brute_force_lit_area, opening_reach  # noqa: E402
-from lightpath.light.events import local_day_number  # noqa: E402
-from lightpath.light.scan import prepare_window, scan_window, sun_for  # noqa: E402
+from lightpath.light.runs import local_day_number  # noqa: E402
+from lightpath.light.scan import prepare_window, scan_window  # noqa: E402
 from lightpath.light.sweep import find_light, sun_enu  # noqa: E402
 from lightpath.scene import demo_scene_path, load_scene  # noqa: E402
 from lightpath.site.builders import demo_chamber  # noqa: E402
@@ -58,6 +58,13 @@ def rough_chamber(target_faces: int = 200_000, roughness_m: float = 0.003, seed:
     return dataclasses.replace(
         demo, mesh=blocking, target=target, opening=model.opening(), content_hash=f"bench-{len(mesh.faces)}-{seed}"
     )
+
+
+def sun_for(observer):
+    """The Sun computed directly at each instant (the baseline's Sun; the engine uses its track)."""
+    from lightpath.sky.sun import sun_position
+
+    return lambda jd_tt: sun_position(jd_tt, observer)
 
 
 def brute_force_days(scene, window, year, step_min=1.0):
