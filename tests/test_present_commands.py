@@ -19,7 +19,10 @@ ROOM = str(demo_scene_path("quillfield"))
         (["report", ROOM, "--year", "year one", "--out", "x"], "--year"),
         (["report", ROOM, "--year", "2027", "--visit-year", "1850", "--out", "x"], "--visit-year: '1850' is outside"),
         (["report", ROOM, "--year", "2027", "--drift", "1:2:3:4", "--out", "x"], "--drift"),
-        (["report", ROOM, "--year", "2027", "--resolution", "5", "--out", "x"], "--resolution: 5 is outside"),
+        (
+            ["report", ROOM, "--year", "2027", "--resolution", "5", "--out", "x"],
+            "--resolution: 5.0 is not a cell size in 0.01..1",
+        ),
         (["report", "no-such-scene.toml", "--year", "2027", "--out", "x"], "scene file not found"),
         (["visit", ROOM, "--from", "2027-02-30", "--to", "2027-03-01"], "--from: '2027-02-30' is not a date"),
         (["visit", ROOM, "--from", "2027-03-02", "--to", "2027-03-01"], "--to 2027-03-01 is before --from"),
@@ -37,9 +40,10 @@ def test_bad_input_is_one_line_and_exit_2(argv, message, capsys, tmp_path, monke
 def test_visit_json_and_calendar_file(tmp_path, capsys):
     ics = tmp_path / "equinox.ics"
     argv = ["visit", ROOM, "--from", "2027-03-10", "--to", "2027-03-31", "--ics", str(ics), "--samples", "60",
-            "--json", "--quiet"]  # fmt: skip
+            "--json", "--quiet", "--no-cache"]  # fmt: skip
     assert main(argv) == 0
     doc = json.loads(capsys.readouterr().out)
+    assert doc["settings"]["samples"] == 60 and doc["settings_line"].startswith("60 target samples, 0.05° ")
     assert doc["timezone"] == "America/Chicago" and doc["refraction_cases"][0] == "as given"
     events = doc["events"]
     assert events, "the reading room is built for light around the March equinox"
@@ -57,9 +61,36 @@ def test_visit_json_and_calendar_file(tmp_path, capsys):
 
 def test_report_command_writes_its_files(tmp_path, capsys):
     out = tmp_path / "r"
-    argv = ["report", ROOM, "--year", "2027", "--out", str(out), "--samples", "40", "--no-svg", "--json", "--quiet"]
+    argv = ["report", ROOM, "--year", "2027", "--out", str(out), "--samples", "40", "--no-svg", "--json", "--quiet",
+            "--no-cache"]  # fmt: skip
     assert main(argv) == 0
     doc = json.loads(capsys.readouterr().out)
+    assert doc["settings"]["samples"] == 40 and doc["settings_line"].startswith("40 target samples, 0.05° ")
     assert set(doc["files"]) >= {"report.html", "events.csv", "divisions.csv", "tables.json"}
     assert not any(name.endswith(".svg") for name in doc["files"])
     assert doc["events"] > 0 and doc["visit_events"] is None
+
+
+@pytest.mark.parametrize("command", ["report", "visit", "demo"])
+def test_engine_options_have_the_scan_commands_names_and_defaults(command):
+    """report, visit and demo take the engine's settings with the same names and defaults as ``scan``."""
+    import argparse
+    import importlib
+
+    from lightpath.commands._common import engine_options
+
+    def parsed(name, argv):
+        parser = argparse.ArgumentParser()
+        importlib.import_module(f"lightpath.commands.{name}").add_arguments(parser)
+        return parser.parse_args(argv)
+
+    needs = {"report": [ROOM, "--year", "2027", "--out", "x"], "visit": [ROOM, "--from", "2027-01-01", "--to",
+             "2027-01-02"], "demo": []}  # fmt: skip
+    scan_w, scan_o = engine_options(parsed("scan", [ROOM, "--year", "2027"]))
+    w, o = engine_options(parsed(command, needs[command]))
+    assert w == scan_w
+    assert (o.criterion, o.source, o.delta_t_s, o.calendar, o.step_min) == (
+        scan_o.criterion, scan_o.source, scan_o.delta_t_s, scan_o.calendar, scan_o.step_min,
+    )  # fmt: skip
+    if command != "demo":  # the demo's sites each have their own divisions
+        assert o == scan_o

@@ -4,10 +4,18 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from test_present_fixture import LONGITUDE_DEG, TARGET_AREA_M2, make_ancient_year, make_scan
+from test_present_fixture import (
+    LONGITUDE_DEG,
+    MAP_FIRST_DAY,
+    MAP_LAST_DAY,
+    TARGET_AREA_M2,
+    day_number,
+    make_ancient_year,
+    make_scan,
+)
 
 from lightpath.errors import InputError
-from lightpath.light.results import ScanResult
+from lightpath.light.results import LightMap, ScanResult, YearScan
 from lightpath.present.figures import day_of_year, epoch_drift_figure, figure_bytes, light_calendar_figure, save_figure
 from lightpath.present.window_figures import flatten_target, light_patch_figure, sky_window_figure
 
@@ -20,13 +28,15 @@ def test_light_calendar_labels_and_division_marks(tmp_path):
     year = make_scan().years[0]
     fig = light_calendar_figure(year, longitude_deg=LONGITUDE_DEG, target_area_m2=TARGET_AREA_M2)
     ax = fig.axes[0]
-    assert ax.get_xlabel() == "Day of the year (1 = 1 January, Gregorian calendar)"
+    assert ax.get_xlabel() == "Local apparent day (Gregorian calendar; day 1 = 1 January 2027)"
     assert ax.get_ylabel() == "Local apparent solar time (h)"
     assert fig.axes[1].get_ylabel() == "Lit fraction of the target"
     assert set(_texts(ax)) == {"March equinox", "June solstice", "September equinox", "December solstice"}
-    # The December solstice line sits on day 355 (2026-12-21 is day 355 of a common year).
+    # Year 2027's divisions begin at the December solstice of 2026: 2026-12-21 is 11 days before
+    # 1 January 2027, day −10; the March equinox 2027-03-20 is day 79.
     xs = sorted(line.get_xdata()[0] for line in ax.get_lines())
-    assert xs[-1] == pytest.approx(355.0)
+    assert xs[0] == pytest.approx(-10.0) and xs[1] == pytest.approx(79.0)
+    assert ax.xaxis.get_major_formatter()(-10.0, 0) == "12-21" and ax.xaxis.get_major_formatter()(1.0, 0) == "01-01"
     # The y range hugs the lit minutes (08:50–09:07 local apparent time) with an hour either side.
     low, high = ax.get_ylim()
     assert low == pytest.approx(530 / 60 - 1) and high == pytest.approx(545 / 60 + 1)
@@ -38,10 +48,28 @@ def test_light_calendar_labels_and_division_marks(tmp_path):
 
 def test_light_calendar_lit_cells_fall_on_the_lit_days():
     year = make_scan().years[0]
-    doy = day_of_year(year.light_map.day_jd_ut, 2026, "gregorian", LONGITUDE_DEG)
-    assert doy[0] == 1 and doy[-1] == 365
+    doy = day_of_year(year.light_map.day_jd_ut, 2027, "gregorian", LONGITUDE_DEG)
+    jan1 = day_number(2027, 1, 1)
+    assert doy[0] == MAP_FIRST_DAY - jan1 + 1 == -20 and doy[-1] == MAP_LAST_DAY - jan1 + 1 == 354
     lit_doy = doy[year.light_map.area_m2.max(axis=1) > 0]
-    assert lit_doy.tolist() == list(range(352, 359))  # December 18..24
+    assert lit_doy.tolist() == list(range(-13, -6))  # December 18..24 of 2026
+
+
+def test_light_calendar_draws_a_run_across_1_january_whole():
+    """A run from 2026-12-28 to 2027-01-03 is one block of lit cells, on both sides of day 1."""
+    first, last = day_number(2026, 12, 20), day_number(2027, 1, 10)
+    days = np.arange(first, last + 1)
+    minutes = np.arange(600.0, 660.0, 5.0)
+    area = np.zeros((days.size, minutes.size))
+    lit_days = (days >= day_number(2026, 12, 28)) & (days <= day_number(2027, 1, 3))
+    area[lit_days, 3:6] = 0.1
+    year = YearScan(2027, "gregorian", "test", [], [], LightMap(days - 0.5, minutes, area))
+    fig = light_calendar_figure(year, longitude_deg=0.0)
+    mesh = fig.axes[0].collections[0]
+    values = np.ma.filled(mesh.get_array(), np.nan).reshape(minutes.size, days.size)
+    lit_columns = np.flatnonzero(np.isfinite(values).any(axis=0))
+    x_edges = mesh.get_coordinates()[0, :, 0]
+    assert (x_edges[lit_columns] + 0.5).tolist() == list(range(-3, 4))  # days −3 … 3: 28 December … 3 January
 
 
 def test_light_calendar_needs_a_light_map():
@@ -58,8 +86,8 @@ def test_epoch_drift_plots_first_and_last_day_per_year():
     labels = [line.get_label() for line in ax.get_lines()]
     assert "December solstice: first day" in labels and "December solstice: last day" in labels
     first = next(line for line in ax.get_lines() if line.get_label() == "December solstice: first day")
-    assert first.get_xdata().tolist() == [-3199.0, 2026.0]
-    assert first.get_ydata().tolist() == [-4.4, -3.65]
+    assert first.get_xdata().tolist() == [-3199.0, 2027.0]
+    assert first.get_ydata().tolist() == [-4.0, -3.0]
     assert "division day" in _texts(ax)
     # Year labels for people: astronomical -3199 is 3200 BC.
     assert ax.xaxis.get_major_formatter()(-3199, 0) == "3200 BC"

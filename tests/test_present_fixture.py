@@ -1,8 +1,10 @@
 """A small hand-built scan result that the presentation tests draw, tabulate and write.
 
 This is a test fixture, not data shown to users: an invented site at 53.1° N 7.4° W
-lit for a few minutes after dawn on seven days around the December solstice of 2026,
-plus one event in 3200 BC (Julian calendar) so ancient dates are exercised too.
+lit for a few minutes after dawn on seven days around the December solstice of 2026 (the first
+division of the year 2027: year Y's divisions run from the December solstice of Y − 1), plus one event
+in 3200 BC (Julian calendar) so ancient dates are exercised too.  Days are local apparent day numbers
+(integer Julian day numbers).
 """
 
 from __future__ import annotations
@@ -25,6 +27,14 @@ def _lat_to_ut(day_jd_0h: float, minutes: float) -> float:
     return day_jd_0h + minutes / 1440.0 - LONGITUDE_DEG / 360.0
 
 
+def day_number(year: int, month: int, day: int, calendar: str = "gregorian") -> int:
+    """The Julian day number (noon) of a calendar date."""
+    return int(julian_day(year, month, day, calendar) + 0.5)
+
+
+SOLSTICE_DAY = day_number(2026, 12, 21)
+
+
 def make_events() -> list[LightEvent]:
     events = []
     for d in LIT_DAYS:
@@ -32,20 +42,22 @@ def make_events() -> list[LightEvent]:
         start, end = _lat_to_ut(jd0, START_MIN), _lat_to_ut(jd0, END_MIN)
         events.append(
             LightEvent(
-                date=f"2026-12-{d:02d}",
+                day=day_number(2026, 12, d),
                 calendar="gregorian",
                 start_jd_ut=start,
                 end_jd_ut=end,
                 peak_jd_ut=(start + end) / 2,
-                start_local_apparent="08:50",
-                end_local_apparent="09:07",
+                start_local_apparent_h=START_MIN / 60.0,
+                end_local_apparent_h=END_MIN / 60.0,
+                peak_local_apparent_h=(START_MIN + END_MIN) / 120.0,
                 duration_min=17.0,
                 peak_area_m2=0.2 - 0.02 * abs(d - 21),
                 peak_fraction=(0.2 - 0.02 * abs(d - 21)) / TARGET_AREA_M2,
                 sun_azimuth_deg=133.5,
                 sun_altitude_deg=0.9,
-                nearest_division="December solstice",
-                offset_days=d - 21.65,
+                division="december_solstice",
+                division_day=SOLSTICE_DAY,
+                offset_days=d - 21,
                 delta_t_s=70.0,
                 delta_t_sigma_s=2.0,
             )
@@ -53,64 +65,72 @@ def make_events() -> list[LightEvent]:
     return events
 
 
+#: Rows of the fixture's light map: local apparent days from 2026-12-11 to 2027-12-20.
+MAP_FIRST_DAY, MAP_LAST_DAY = day_number(2026, 12, 11), day_number(2027, 12, 20)
+
+
 def make_light_map() -> LightMap:
-    jan1 = float(julian_day(2026, 1, 1, "gregorian"))
-    days = np.arange(365.0)
-    day_jd_ut = jan1 + days - LONGITUDE_DEG / 360.0  # UT at local (mean ≈ apparent) midnight
+    days = np.arange(MAP_FIRST_DAY, MAP_LAST_DAY + 1)
+    day_jd_ut = days - 0.5 - LONGITUDE_DEG / 360.0  # UT at local (mean ≈ apparent) midnight
     minutes = np.arange(0.0, 1440.0, 5.0)
     area = np.zeros((days.size, minutes.size))
     in_time = (minutes >= START_MIN) & (minutes <= END_MIN)
     for d in LIT_DAYS:
-        area[int(julian_day(2026, 12, d, "gregorian") - jan1), in_time] = 0.2 - 0.02 * abs(d - 21)
+        area[day_number(2026, 12, d) - MAP_FIRST_DAY, in_time] = 0.2 - 0.02 * abs(d - 21)
     return LightMap(day_jd_ut=day_jd_ut, minutes=minutes, area_m2=area)
 
 
 def make_divisions() -> list[DivisionLight]:
-    names = ["March equinox", "June solstice", "September equinox", "December solstice"]
-    dates = ["2026-03-20", "2026-06-21", "2026-09-23", "2026-12-21"]
+    names = ["december_solstice", "march_equinox", "june_solstice", "september_equinox"]
+    dates = [(2026, 12, 21), (2027, 3, 20), (2027, 6, 21), (2027, 9, 23)]
     out = []
-    for i, (name, date) in enumerate(zip(names, dates, strict=True)):
-        y, m, d = (int(v) for v in date.split("-"))
-        lit = name == "December solstice"
+    for i, (name, (y, m, d)) in enumerate(zip(names, dates, strict=True)):
+        lit = name == "december_solstice"
+        day = day_number(y, m, d)
         out.append(
             DivisionLight(
                 scheme="solar",
                 index=i,
                 name=name,
                 jd_tt=float(julian_day(y, m, d + 0.65, "gregorian")),
-                date=date,
-                first_date="2026-12-18" if lit else None,
-                last_date="2026-12-24" if lit else None,
+                day=day,
+                calendar="gregorian",
+                first_day=day - 3 if lit else None,
+                last_day=day + 3 if lit else None,
                 days=7 if lit else 0,
-                first_offset_days=-3.65 if lit else None,
-                last_offset_days=2.35 if lit else None,
+                first_offset_days=-3 if lit else None,
+                last_offset_days=3 if lit else None,
+                nearest_offset_days=0 if lit else None,
             )
         )
     return out
 
 
 def make_ancient_year() -> YearScan:
-    jd0 = float(julian_day(-3199, 12, 24, "julian"))
+    jd0 = float(julian_day(-3200, 12, 24, "julian"))
     start, end = _lat_to_ut(jd0, 535), _lat_to_ut(jd0, 549)
+    day = day_number(-3200, 12, 24, "julian")
+    solstice = day + 1
     event = LightEvent(
-        date="-3199-12-24", calendar="julian", start_jd_ut=start, end_jd_ut=end, peak_jd_ut=(start + end) / 2,
-        start_local_apparent="08:55", end_local_apparent="09:09", duration_min=14.0, peak_area_m2=0.15,
-        peak_fraction=0.3, sun_azimuth_deg=134.9, sun_altitude_deg=0.8, nearest_division="December solstice",
-        offset_days=-0.4, delta_t_s=79000.0, delta_t_sigma_s=6700.0, ut_date_uncertain=True,
+        day=day, calendar="julian", start_jd_ut=start, end_jd_ut=end, peak_jd_ut=(start + end) / 2,
+        start_local_apparent_h=535 / 60, end_local_apparent_h=549 / 60, peak_local_apparent_h=542 / 60,
+        duration_min=14.0, peak_area_m2=0.15, peak_fraction=0.3, sun_azimuth_deg=134.9, sun_altitude_deg=0.8,
+        division="december_solstice", division_day=solstice, offset_days=-1, delta_t_s=79000.0,
+        delta_t_sigma_s=6700.0, ut_date_uncertain=True,
     )  # fmt: skip
     division = DivisionLight(
-        "solar", 3, "December solstice", float(jd0 + 0.4), "-3199-12-24", "-3199-12-20", "-3199-12-28", 9,
-        -4.4, 3.6,
+        "solar", 0, "december_solstice", float(jd0 + 1.4), solstice, "julian", solstice - 4, solstice + 4, 9, -4, 4,
+        -1,
     )  # fmt: skip
     return YearScan(-3199, "julian", "VSOP87D (test)", [event], [division])
 
 
 def make_scan(with_ancient: bool = False) -> ScanResult:
     settings = ScanSettings(
-        criterion="first-gleam", scheme="solar", parts=4, samples=400, seed=7, window_resolution_deg=0.25,
+        criterion="first-gleam", scheme="solar", parts=4, samples=400, seed=7, resolution_deg=0.25,
         refraction="bennett1982", source="JPL DE421 (skyfield)",
     )  # fmt: skip
-    years = [YearScan(2026, "gregorian", "JPL DE421 (skyfield)", make_events(), make_divisions(), make_light_map())]
+    years = [YearScan(2027, "gregorian", "JPL DE421 (skyfield)", make_events(), make_divisions(), make_light_map())]
     if with_ancient:
         years.insert(0, make_ancient_year())
     return ScanResult(scene="Invented test chamber", settings=settings, target_area_m2=TARGET_AREA_M2, years=years)

@@ -38,7 +38,8 @@ def test_report_lists_every_event_and_parses(tmp_path, calendar_figure):
     events = [e for y in scan.years for e in y.events]
     assert len(rows) == len(events) == 8
     dates = [r.xpath("./td")[0].text_content() for r in rows]
-    assert dates == ["-3199-12-24"] + [f"2026-12-{d}" for d in range(18, 25)]
+    # year −3199 (3200 BC) and year 2027 begin with the December solstice of the year before them
+    assert dates == ["-3200-12-24"] + [f"2026-12-{d}" for d in range(18, 25)]
     headings = [th.text_content() for th in doc.xpath('//table[@id="event-table"]/thead//th')]
     assert headings == [title for _, title in EVENT_HTML_COLUMNS]
     assert len(doc.xpath('//table[@id="division-table"]/tbody/tr')) == 5
@@ -49,6 +50,9 @@ def test_report_lists_every_event_and_parses(tmp_path, calendar_figure):
     accuracy = doc.xpath('//h2[@id="accuracy"]/following-sibling::dl[1]')[0].text_content()
     for needle in ("JPL DE421 (skyfield)", "σ up to 6,700 s", "Bennett (1982)", "0.25°", "first-gleam"):
         assert needle in accuracy
+    # the settings line, samples and cell size first, at the top of the report and among the notes
+    line = "400 target samples, 0.25° window cells, criterion first-gleam, 4 divisions (solar)"
+    assert line in doc.xpath('string(//p[@id="settings"])') and line in accuracy
 
 
 def test_report_is_self_contained(tmp_path, calendar_figure):
@@ -68,7 +72,9 @@ def test_report_is_self_contained(tmp_path, calendar_figure):
 def test_tables_beside_the_report_agree(tmp_path, calendar_figure):
     scan, paths = _write(tmp_path, calendar_figure)
     with open(paths["events.csv"], newline="", encoding="utf-8") as handle:
+        header = handle.readline()
         rows = list(csv.DictReader(handle))
+    assert header.startswith("# Invented test chamber: 400 target samples, 0.25° window cells")
     assert [r["date"] for r in rows] == [r["date"] for r in event_rows(scan)]
     assert rows[0]["ut_date_uncertain"] == "True" and rows[0]["calendar"] == "julian"
     doc = json.loads(paths["tables.json"].read_text(encoding="utf-8"))
@@ -104,7 +110,9 @@ def test_interrupted_write_leaves_no_partial_file(tmp_path, calendar_figure, mon
     leftovers = [p.name for p in out.rglob("*") if p.name.endswith(".part") or p.name.startswith(".")]
     assert leftovers == []
     assert first["report.html"].read_bytes() == old_page  # the earlier report is untouched
-    assert first["events.csv"].read_text() == rows_to_csv(event_rows(make_scan(with_ancient=True)), EVENT_COLUMNS)
+    assert (
+        first["events.csv"].read_text().endswith(rows_to_csv(event_rows(make_scan(with_ancient=True)), EVENT_COLUMNS))
+    )
 
 
 def test_every_value_is_escaped():

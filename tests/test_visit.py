@@ -82,9 +82,13 @@ def test_local_day_start_contains_the_instant():
 
 
 def _event(start_jd: float, minutes: float = 15.0) -> LightEvent:
+    """An invented event starting at ``start_jd`` (UT); its day and local apparent times are rough (Greenwich)."""
     end = start_jd + minutes / 1440
-    return LightEvent("2027-02-01", "gregorian", start_jd, end, (start_jd + end) / 2, "08:50", "09:05", minutes,
-                      0.1, 0.2, 130.0, 1.0, "Imbolc", 0.3, 69.0, 0.1)  # fmt: skip
+    day = int(np.floor(start_jd + 0.5))
+    lat_h = (start_jd + 0.5 - day) * 24.0
+    return LightEvent(day, "gregorian", start_jd, end, (start_jd + end) / 2, lat_h, lat_h + minutes / 60,
+                      lat_h + minutes / 120, minutes, 0.1, 0.2, 130.0, 1.0, "march_equinox", day - 3, 3, 69.0,
+                      0.1)  # fmt: skip
 
 
 def test_match_events_prefers_overlap():
@@ -129,7 +133,8 @@ def test_plan_visit_runs_three_refraction_cases_and_keeps_the_span():
     last = jd_from_local_date(dt.date(2027, 3, 30), "Europe/Dublin")
     plan = plan_visit(_FakeScene(SITE), first, last, scan=_stub_scan(calls), sun_fn=_skyfield_sun,
                       samples=100)  # fmt: skip
-    assert len(calls) == 3 and all(c[1] == (2027,) and c[2] == {"samples": 100} for c in calls)
+    # year 2028's divisions begin at the December solstice of 2027, so the planner scans one year more
+    assert len(calls) == 3 and all(c[1] == (2027, 2028) and c[2] == {"samples": 100} for c in calls)
     factors = [(o.pressure_mbar / 1010.0) * (283.0 / (273.0 + o.temperature_c)) for o, _, _ in calls]
     r0 = float(refraction_bennett1982(0.0, SITE.pressure_mbar, SITE.temperature_c))
     base = factors[0]
@@ -153,6 +158,9 @@ def test_visit_rows_follow_daylight_saving():
     assert rows[0]["start"].startswith("07:") and rows[1]["start"].startswith("08:")
     assert rows[0]["earliest_start"] <= rows[0]["start"] <= rows[0]["latest_start"]
     assert rows[0]["sunrise"] < rows[0]["start"] < rows[0]["sunset"]
+    # the division of the event's light run and the event's own offset, as the engine gave them (numbers)
+    assert rows[0]["division"] == "march_equinox" and rows[0]["offset_days"] == 3
+    assert rows[0]["local_apparent_date"] == "2027-03-27"
     text = visit_text(plan)
     assert "Europe/Dublin" in text and "Never look at the Sun" in text
 
