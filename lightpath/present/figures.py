@@ -173,6 +173,12 @@ def light_calendar_figure(
         text = day_date(int(round(v)) + jan1 - 1, year_scan.calendar)
         return text[-5:] if text else ""
 
+    cal = year_scan.calendar if year_scan.calendar in ("julian", "gregorian") else "auto"
+    firsts = [  # the first of each month from the December before the year to the January after it
+        int(round(float(julian_day(year_scan.year + (m - 1) // 12 - 1, (m - 1) % 12 + 1, 1, cal)) + 0.5)) - jan1 + 1
+        for m in range(12, 26)
+    ]
+    ax.set_xticks([x for x in firsts if day_edges[0] <= x <= day_edges[-1]])
     ax.xaxis.set_major_formatter(FuncFormatter(date_tick))
     ax.set_xlabel(f"Local apparent day ({cal_name} calendar; day 1 = 1 January {year_label(year_scan.year)})")
     ax.set_ylabel("Local apparent solar time (h)")
