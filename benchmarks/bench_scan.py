@@ -33,7 +33,7 @@ import trimesh
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 from lightpath.light.bruteforce import brute_force_fraction, brute_force_lit_area, opening_reach  # noqa: E402
-from lightpath.light.runs import local_day_number  # noqa: E402
+from lightpath.light.runs import local_apparent_day_number  # noqa: E402
 from lightpath.light.scan import prepare_window, scan_window  # noqa: E402
 from lightpath.light.sweep import find_light, sun_enu  # noqa: E402
 from lightpath.scene import demo_scene_path, load_scene  # noqa: E402
@@ -85,7 +85,7 @@ def brute_force_days(scene, window, year, step_min=1.0):
     brute_force_fraction(scene.mesh, window.points_m, window.normals, dirs[pick], horizon=scene.horizon)
     per_up = (time.perf_counter() - t0) / len(pick)
     p = sun(t[reach][lit])
-    days = set(local_day_number(p.jd_ut, scene.observer.longitude_deg, p.local_apparent_time_h).tolist())
+    days = set(local_apparent_day_number(p.jd_ut, scene.observer.longitude_deg, p.local_apparent_time_h).tolist())
     return days, seconds, int(reach.sum()), per_up * float(up.sum()), int(up.sum())
 
 
@@ -111,7 +111,9 @@ def main() -> int:
     fast = find_light(window, sun, jd0, jd1, "first-gleam")
     t_sweep = time.perf_counter() - t0
     peaks = sun(np.array([x.peak_jd_tt for x in fast]))
-    fast_days = set(local_day_number(peaks.jd_ut, scene.observer.longitude_deg, peaks.local_apparent_time_h).tolist())
+    fast_days = set(
+        local_apparent_day_number(peaks.jd_ut, scene.observer.longitude_deg, peaks.local_apparent_time_h).tolist()
+    )
     t_fast = t_window + t_sweep
     print(
         f"window path, {samples} samples, year {year}: window {t_window:.1f} s ({window.rays_cast:,} rays, "

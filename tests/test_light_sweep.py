@@ -134,7 +134,7 @@ def _brute_force_days(scene, window, year, criterion):
     reach (geometry only); a ray per sample per disc point (64) at each.
     """
     from lightpath.light.bruteforce import brute_force_fraction, brute_force_lit_area, opening_reach
-    from lightpath.light.runs import local_day_number
+    from lightpath.light.runs import local_apparent_day_number
     from lightpath.light.sweep import sun_enu
     from lightpath.sky.calendar import julian_day as jd_of
 
@@ -146,7 +146,7 @@ def _brute_force_days(scene, window, year, criterion):
     frac = brute_force_fraction(scene.mesh, window.points_m, window.normals, dirs, horizon=scene.horizon)
     lit = brute_force_lit_area(frac, window.area_m2, criterion) > 0
     pos = sun(t[lit])
-    days = local_day_number(pos.jd_ut, scene.observer.longitude_deg, pos.local_apparent_time_h)
+    days = local_apparent_day_number(pos.jd_ut, scene.observer.longitude_deg, pos.local_apparent_time_h)
     out = {}
     for d, tt in zip(days.tolist(), t[lit].tolist(), strict=True):
         a, b = out.get(d, (tt, tt))
@@ -156,7 +156,7 @@ def _brute_force_days(scene, window, year, criterion):
 
 @pytest.mark.parametrize("site", sorted(DEMO_EPOCHS))
 def test_demo_site_window_path_matches_brute_force(site):
-    from lightpath.light.runs import local_day_number
+    from lightpath.light.runs import local_apparent_day_number
     from lightpath.light.scan import prepare_window
     from lightpath.scene import demo_scene_path, load_scene
 
@@ -167,7 +167,7 @@ def test_demo_site_window_path_matches_brute_force(site):
     jd0, jd1 = float(julian_day(year, 1, 1.0)) - 1.0, float(julian_day(year + 1, 1, 1.0)) + 1.0
     fast = find_light(window, sun, jd0, jd1, "first-gleam")
     peaks = sun(np.array([x.peak_jd_tt for x in fast]))
-    fast_days = local_day_number(peaks.jd_ut, scene.observer.longitude_deg, peaks.local_apparent_time_h)
+    fast_days = local_apparent_day_number(peaks.jd_ut, scene.observer.longitude_deg, peaks.local_apparent_time_h)
     brute = _brute_force_days(scene, window, year, "first-gleam")
     by_day = {}
     for d, x in zip(fast_days.tolist(), fast, strict=True):

@@ -15,10 +15,10 @@ from lightpath.light.sweep import find_light
 from lightpath.light.window import compute_window
 from lightpath.site.builders import Slot, slit_shrine
 from lightpath.site.sampling import sample_target
+from lightpath.site.targets import area_centroid_m
 from lightpath.sky.divisions import divisions
 from lightpath.sky.observer import Observer
 from lightpath.sky.sun import sun_position
-from lightpath.site.targets import area_centroid_m
 from lightpath.study.light_days import LightDays
 
 SITE = Observer(latitude_deg=30.0, longitude_deg=31.0, elevation_m=0.0)
@@ -56,7 +56,7 @@ def slit_window(
 
 def test_light_days_match_the_engine_sweep_with_a_direct_sun():
     """The study's days of light equal the engine's sweep run with the Sun computed directly (no track)."""
-    from lightpath.light.runs import local_day_number
+    from lightpath.light.runs import local_apparent_day_number
 
     div = division_of("cross_quarter_nov")
     window, _ = slit_window(round(div.sunrise_azimuth_deg, 3))
@@ -69,7 +69,7 @@ def test_light_days_match_the_engine_sweep_with_a_direct_sun():
 
     intervals = find_light(window, sun, div.jd_tt - 40.0, div.jd_tt + 40.0, "first-gleam")
     peaks = sun(np.array([i.peak_jd_tt for i in intervals]))
-    days = local_day_number(peaks.jd_ut, SITE.longitude_deg, peaks.local_apparent_time_h)
+    days = local_apparent_day_number(peaks.jd_ut, SITE.longitude_deg, peaks.local_apparent_time_h)
     day0 = int(light.division_days(EPOCH)[0])
     engine_days = sorted({int(d) - day0 for d in days})
     first, last = int(runs[0, 1]), int(runs[0, 2])

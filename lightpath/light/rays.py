@@ -68,8 +68,6 @@ def ray_backend() -> str:
     return "embree"
 
 
-
-
 def __getattr__(name: str) -> str:
     if name == "BACKEND":  # the backend in use, looked up lazily so that importing this module stays cheap
         return ray_backend()

@@ -1,7 +1,7 @@
 """What the engine returns: plain dataclasses of numbers that the studies, reports and commands present.
 
 Days are **local apparent days** at the site, as integer Julian day numbers (the day whose noon
-is local apparent noon; :func:`lightpath.light.runs.local_day_number`); ``calendar`` names the
+is local apparent noon; :func:`lightpath.light.runs.local_apparent_day_number`); ``calendar`` names the
 calendar a date made from them is shown in.  Instants are Julian dates: ``_jd_ut`` (UT1) or
 ``_jd_tt``; times of day are hours of local apparent solar time (``_local_apparent_h``, 0..24).
 Nothing here is a formatted string: :mod:`lightpath.present` makes the words.

@@ -2,7 +2,8 @@
 
 The day convention of every result is the **local apparent day** at the site: the day
 number D (an integer Julian day number, whose noon is local apparent noon) of the local
-apparent solar day that contains an instant (:func:`local_day_number`).
+apparent solar day that contains an instant
+(:func:`lightpath.sky.instants.local_apparent_day_number`, re-exported here).
 
 A **light run** is a maximal stretch of consecutive local apparent days with light
 (:func:`runs_of_days`).  Each run belongs to one division of the year (:func:`assign_runs`):
@@ -11,11 +12,9 @@ or else the division whose day is nearest the run's middle (the earlier one on a
 day of the run then carries that division and its own offset in days from the division's day.
 ``docs/divisions.md`` states the rule.
 
->>> int(local_day_number(2451545.0, 0.0, 12.0))    # noon at Greenwich, 2000-01-01
-2451545
 >>> runs_of_days([10, 11, 12, 20, 21]).tolist()
 [[10, 12], [20, 21]]
->>> assign_runs([[10, 12], [20, 21]], [11, 30]).tolist()
+>>> assign_runs([[10, 12], [20, 21]], [11, 28]).tolist()
 [0, 1]
 """
 
@@ -26,18 +25,9 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-__all__ = ["DivisionRuns", "assign_runs", "division_runs", "local_day_number", "runs_of_days"]
+from lightpath.sky.instants import local_apparent_day_number
 
-
-def local_day_number(jd_ut: ArrayLike, longitude_deg: float, local_apparent_time_h: ArrayLike) -> NDArray:
-    """Integer Julian day number of the local apparent solar day containing each instant.
-
-    The day number D is the one whose local apparent midnight (D − 0.5 + LAT/24 = local instant) is nearest:
-    D = round(jd_ut + longitude/360 + 0.5 − LAT/24), exact to within the equation of time (≤ 17 min).
-    """
-    local = np.asarray(jd_ut, float) + longitude_deg / 360.0 + 0.5 - np.asarray(local_apparent_time_h, float) / 24.0
-    out = np.rint(local).astype(np.int64)
-    return out[()] if out.ndim == 0 else out
+__all__ = ["DivisionRuns", "assign_runs", "division_runs", "local_apparent_day_number", "runs_of_days"]
 
 
 def runs_of_days(days: ArrayLike) -> NDArray:

@@ -119,15 +119,16 @@ def prepare_window(
     ----------
     scene : a :class:`lightpath.scene.Scene` or the path of a scene file.
     options : samples, seed, resolution_deg, cache_dir (:class:`~lightpath.light.options.WindowOptions`).
-    window_options : fields of :class:`WindowOptions` laid over ``options``; the rest are passed to :func:`lightpath.light.window.compute_window` (``coarse_deg``, ``search_deg``, …).
+    window_options : fields of :class:`WindowOptions` laid over ``options``; the rest go to
+        :func:`lightpath.light.window.compute_window` (``coarse_deg``, ``search_deg``, …).
 
     Raises
     ------
     InputError when the target sees no sky in any direction the Sun can take.
     """
-    from lightpath.site.sampling import sample_target
-
     import dataclasses
+
+    from lightpath.site.sampling import sample_target
 
     names = {f.name for f in dataclasses.fields(WindowOptions)}
     mine = {k: window_options.pop(k) for k in list(window_options) if k in names}

@@ -29,7 +29,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from lightpath.light.options import Conditions, ScanOptions
-from lightpath.light.runs import DivisionRuns, assign_runs, division_runs, local_day_number, runs_of_days
+from lightpath.light.runs import DivisionRuns, assign_runs, division_runs, local_apparent_day_number, runs_of_days
 from lightpath.light.sweep import LightInterval, find_light
 from lightpath.light.track import SunTrack
 from lightpath.light.window import SkyWindow
@@ -76,7 +76,7 @@ class YearSky:
         e = np.zeros_like(self.division_sigma_s) if fixed else delta_t_z * self.division_sigma_s
         jd_ut = self.division_jd_ut - e / _DAY_S
         lat_h = np.mod(self.division_lat_h - e / 3600.0, 24.0)
-        return np.atleast_1d(local_day_number(jd_ut, self.observer.longitude_deg, lat_h))
+        return np.atleast_1d(local_apparent_day_number(jd_ut, self.observer.longitude_deg, lat_h))
 
 
 @functools.lru_cache(maxsize=256)
@@ -179,7 +179,9 @@ def year_light(window: SkyWindow, sky: YearSky, conditions: Conditions | None = 
                            horizon_offset_deg=c.horizon_offset_deg, limb_darkening_u=c.limb_darkening_u)  # fmt: skip
     if intervals:
         peaks = sun(np.array([x.peak_jd_tt for x in intervals]))
-        days = np.atleast_1d(local_day_number(peaks.jd_ut, sky.observer.longitude_deg, peaks.local_apparent_time_h))
+        days = np.atleast_1d(
+            local_apparent_day_number(peaks.jd_ut, sky.observer.longitude_deg, peaks.local_apparent_time_h)
+        )
         keep = (days >= sky.first_day) & (days <= sky.last_day)
         intervals = [x for x, k in zip(intervals, keep, strict=True) if k]
         days = days[keep]
