@@ -16,22 +16,23 @@ and without lightpath:
   (ERFA ``ab``) — the apparent GCRS/ICRF direction (no deflection: the Sun is
   the deflecting body);
 * the same vector in the true equator and equinox of date, through the
-  long-term precession of Vondrák et al. (2011) (ERFA ``ltpb``), IAU 2000B
-  nutation (``nut00b``) about the long-term mean obliquity (angle between
-  ``ltpecl`` and ``ltpequ``), and the ecliptic longitude of date with the true
-  obliquity.
+  long-term precession of Vondrák et al. (2011) (ERFA ``ltpb``), full IAU 2000A
+  nutation (``nut00a``; 2000B's linear arguments would drift by 1.5″ at 3000 BC)
+  about the long-term mean obliquity (angle between ``ltpecl`` and ``ltpequ``),
+  and the ecliptic longitude of date with the true obliquity.
 
 Columns: jd_tt, ra_gcrs_deg, dec_gcrs_deg, distance_au, ra_date_deg,
 dec_date_deg, ecliptic_longitude_date_deg.  Instants: one random instant in
 each of 600 equal slices of DE406's span (numpy default_rng(406)).
 
-    /tmp/dev/bin/python tools/make_de406_table.py [--package-dir DIR]
+    python tools/make_de406_table.py [--package-dir DIR]
 
 References
 ----------
 Standish, E. M. (1998). JPL Planetary and Lunar Ephemerides, DE405/LE405.
 JPL Interoffice Memorandum IOM 312.F-98-048 (DE406 is its long-span version).
 Vondrák, J., Capitaine, N., & Wallace, P. (2011). *A&A* 534, A22.
+Mathews, P. M., Herring, T. A., & Buffett, B. A. (2002). *J. Geophys. Res.* 107, B4 (IAU 2000A nutation).
 """
 
 from __future__ import annotations
@@ -98,7 +99,7 @@ def of_date(jd_tt: np.ndarray, gcrs_unit: np.ndarray) -> tuple[np.ndarray, np.nd
     epj = erfa.epj(jd_tt, 0.0)
     pecl, pequ = erfa.ltpecl(epj), erfa.ltpequ(epj)
     eps_mean = np.arctan2(np.linalg.norm(np.cross(pecl, pequ), axis=1), np.sum(pecl * pequ, axis=1))
-    dpsi, deps = erfa.nut00b(jd_tt, 0.0)
+    dpsi, deps = erfa.nut00a(jd_tt, 0.0)  # Mathews et al. (2002): full series and fundamental arguments
     rnpb = erfa.numat(eps_mean, dpsi, deps) @ erfa.ltpb(epj)
     v = np.einsum("nij,nj->ni", rnpb, gcrs_unit)
     ra, dec = erfa.c2s(v)
@@ -130,7 +131,7 @@ def main() -> None:
         "# Apparent geocentric Sun from JPL DE406 (PyPI de406 1997.1 via jplephem.ephem), "
         "written by tools/make_de406_table.py\n"
         "# light time + annual aberration (ERFA ab); of-date columns via Vondrak et al. (2011) "
-        "ltpb + IAU 2000B nutation about the ltpecl/ltpequ mean obliquity\n"
+        "ltpb + IAU 2000A nutation (nut00a) about the ltpecl/ltpequ mean obliquity\n"
         "jd_tt,ra_gcrs_deg,dec_gcrs_deg,distance_au,ra_date_deg,dec_date_deg,ecliptic_longitude_date_deg\n"
     )
     args.out.parent.mkdir(parents=True, exist_ok=True)

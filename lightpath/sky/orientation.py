@@ -5,9 +5,10 @@
   ``erfa.ltpequ``), valid for ±200,000 years about J2000.  The IAU 2006
   polynomials drift from them by about 12″ at 3000 BC and over 15′ at 10,000 BC.
 * Nutation: IAU 2000B (McCarthy & Luzum 2003, ``erfa.nut00b``), good to 1 mas
-  over 1995–2050; its luni-solar series is used unchanged at every epoch (the
-  fundamental arguments are polynomials in time, whose error far back is below
-  a few arcseconds of nutation phase — negligible next to ΔT).
+  over 1995–2050, used as it is over 1900–2100; before 1800 and after 2200 its
+  77 terms are evaluated with the full fundamental arguments of Simon et al.
+  (1994), as IAU 2000A does (:mod:`lightpath.sky.nutation`): 2000B's linear
+  arguments alone would part from 2000A by 1.5″ in Δψ at 3000 BC, 6″ at 9000 BC.
 * Mean obliquity of date: the angle between the long-term ecliptic pole and the
   long-term equator pole (Vondrák et al. 2011), so ecliptic and equator agree
   with the precession used.
@@ -34,6 +35,9 @@ Vondrák, J., Capitaine, N., & Wallace, P. (2011). New precession expressions,
 valid for long time intervals. *Astronomy & Astrophysics* 534, A22 (erratum
 2012, A&A 541, C1).
 
+Simon, J. L., et al. (1994). Numerical expressions for precession formulae and mean elements for the Moon
+and the planets. *A&A* 282, 663–683 (fundamental arguments).
+
 McCarthy, D. D., & Luzum, B. J. (2003). An abridged model of the precession-
 nutation of the celestial pole. *Celestial Mechanics and Dynamical Astronomy* 85, 37–49.
 
@@ -54,6 +58,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from lightpath.sky import cio
+from lightpath.sky.nutation import nutation_rad
 
 __all__ = [
     "bias_precession_matrix",
@@ -66,6 +71,7 @@ __all__ = [
     "greenwich_apparent_sidereal_time_deg",
     "julian_epoch",
     "mean_obliquity_deg",
+    "nutation_deg",
     "nutation_iau2000b_deg",
     "precession_matrix",
     "true_obliquity_deg",
@@ -188,9 +194,22 @@ def nutation_iau2000b_deg(jd_tt: ArrayLike) -> tuple[NDArray, NDArray]:
     return dpsi * _RAD_DEG, deps * _RAD_DEG
 
 
+def nutation_deg(jd_tt: ArrayLike) -> tuple[NDArray, NDArray]:
+    """Nutation (Δψ, Δε), degrees, at any epoch: IAU 2000B near J2000, its long-term form far from it.
+
+    See :mod:`lightpath.sky.nutation`.
+
+    >>> dpsi, deps = nutation_deg(2448908.5)  # 1992 Oct 13.0 TD: IAU 2000B itself
+    >>> round(float(dpsi) * 3600, 2), round(float(deps) * 3600, 2)
+    (15.91, -0.31)
+    """
+    dpsi, deps = nutation_rad(_jd(jd_tt))
+    return dpsi * _RAD_DEG, deps * _RAD_DEG
+
+
 def true_obliquity_deg(jd_tt: ArrayLike) -> NDArray:
-    """True obliquity of date, degrees: long-term mean obliquity + Δε (IAU 2000B)."""
-    return mean_obliquity_deg(jd_tt) + nutation_iau2000b_deg(jd_tt)[1]
+    """True obliquity of date, degrees: long-term mean obliquity + Δε (:func:`nutation_deg`)."""
+    return mean_obliquity_deg(jd_tt) + nutation_deg(jd_tt)[1]
 
 
 def nutation_matrix(eps_mean_rad: ArrayLike, dpsi_rad: ArrayLike, deps_rad: ArrayLike) -> NDArray:
@@ -201,10 +220,10 @@ def nutation_matrix(eps_mean_rad: ArrayLike, dpsi_rad: ArrayLike, deps_rad: Arra
 def bias_precession_nutation_matrix(jd_tt: ArrayLike) -> NDArray:
     """GCRS → true equator and equinox of date, long-term, shape (..., 3, 3).
 
-    ``N(IAU 2000B, long-term mean obliquity) @ B·P(Vondrák et al. 2011)``.
+    ``N(nutation_deg, long-term mean obliquity) @ B·P(Vondrák et al. 2011)``.
     """
     jd = _jd(jd_tt)
-    dpsi, deps = erfa.nut00b(jd, 0.0)
+    dpsi, deps = nutation_rad(jd)
     eps = mean_obliquity_deg(jd) / _RAD_DEG
     return np.matmul(erfa.numat(eps, dpsi, deps), bias_precession_matrix(jd))
 

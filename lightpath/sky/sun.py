@@ -5,7 +5,7 @@ Pipeline (the same for both sources, :mod:`lightpath.sky.sources`):
 1. apparent geocentric GCRS vector of the Sun (light time, aberration) from
    JPL DE421/any kernel or VSOP87D;
 2. to the true equator and equinox of date with the long-term
-   bias-precession-nutation matrix (Vondrák et al. 2011 + IAU 2000B,
+   bias-precession-nutation matrix (Vondrák et al. 2011 + IAU 2000B, long-term far from J2000,
    :mod:`lightpath.sky.orientation`) → right ascension, declination, distance;
    ecliptic longitude of date with the true obliquity;
 3. Earth rotation: GAST = ERA(UT1) − equation of the origins (ERFA ``gst06``
@@ -64,6 +64,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from lightpath.sky import cio, orientation
 from lightpath.sky.nodes import chebyshev_blocks, lagrange_on_grid
+from lightpath.sky.nutation import nutation_rad
 from lightpath.sky.observer import Observer
 from lightpath.sky.refraction import apparent_altitude
 from lightpath.sky.sources import SunSource, choose_source, warn_if_unverified
@@ -154,8 +155,8 @@ def _slow_orientation(jd: NDArray) -> NDArray:
 
 
 def _nutation_columns(jd: NDArray) -> NDArray:
-    """(n, 2): Δψ, Δε of IAU 2000B (radians)."""
-    return split_map(lambda t: np.column_stack(erfa.nut00b(t, 0.0)), jd)
+    """(n, 2): Δψ, Δε (radians): IAU 2000B over 1900–2100, its long-term form far from J2000 (sky.nutation)."""
+    return split_map(lambda t: np.column_stack(nutation_rad(t)), jd)
 
 
 def _core(src: SunSource, jd: NDArray) -> NDArray:
