@@ -1,6 +1,6 @@
 """Julian day numbers and calendar dates, proleptic Julian and Gregorian.
 
-Years use astronomical numbering: year 0 is 1 BC and year -3199 is 3200 BC.
+Years use astronomical numbering: year 0 is 1 BC and year -2599 is 2600 BC.
 The default calendar is the Julian one before 1582 October 15 (Gregorian) and
 the Gregorian one from then on, as in Meeus (1998) chapter 7; either can be
 forced for every date with ``calendar="julian"`` or ``calendar="gregorian"``.
@@ -189,10 +189,10 @@ def calendar_date(jd: ArrayLike, calendar: Calendar = "auto"):
 
 
 def year_label(year: int) -> str:
-    """A year in astronomical numbering written for people: ``-3199`` → ``"3200 BC"``.
+    """A year in astronomical numbering written for people: ``-2599`` → ``"2600 BC"``.
 
-    >>> year_label(-3199), year_label(0), year_label(2027)
-    ('3200 BC', '1 BC', '2027')
+    >>> year_label(-2599), year_label(0), year_label(2027)
+    ('2600 BC', '1 BC', '2027')
     """
     year = int(year)
     return f"{1 - year} BC" if year <= 0 else str(year)
@@ -222,7 +222,7 @@ def is_leap_year(year: ArrayLike, calendar: Literal["julian", "gregorian"] = "gr
 
     >>> [bool(is_leap_year(y, "gregorian")) for y in (1900, 2000, 2024)]
     [False, True, True]
-    >>> [bool(is_leap_year(y, "julian")) for y in (1900, 0, -4, -3199)]
+    >>> [bool(is_leap_year(y, "julian")) for y in (1900, 0, -4, -2599)]
     [True, True, True, False]
 
     References
@@ -302,11 +302,11 @@ def validate_date(year: int, month: int, day: float, calendar: Calendar = "auto"
 
 
 def year_from_label(text: str, what: str = "year") -> int:
-    """A written year → astronomical year: ``"3200 BC"`` → -3199, ``"AD 1200"`` / ``"1200"`` → 1200,
-    ``"-3199"`` → -3199.  There is no year "0 BC" (1 BC is followed by AD 1).
+    """A written year → astronomical year: ``"2600 BC"`` → -2599, ``"AD 1200"`` / ``"1200"`` → 1200,
+    ``"-2599"`` → -2599.  There is no year "0 BC" (1 BC is followed by AD 1).
 
-    >>> year_from_label("3200 BC"), year_from_label("1 BC"), year_from_label("AD 33"), year_from_label("-44")
-    (-3199, 0, 33, -44)
+    >>> year_from_label("2600 BC"), year_from_label("1 BC"), year_from_label("AD 33"), year_from_label("-44")
+    (-2599, 0, 33, -44)
     """
     from lightpath.errors import InputError
 
@@ -318,7 +318,7 @@ def year_from_label(text: str, what: str = "year") -> int:
             t = t.removesuffix(" " + word).removeprefix(word + " ").strip()
             break
     if not (t.lstrip("+-").isdigit()):
-        raise InputError(f"{what}: {text!r} is not a year (e.g. 2027, -3199, 3200 BC, AD 33)")
+        raise InputError(f"{what}: {text!r} is not a year (e.g. 2027, -2599, 2600 BC, AD 33)")
     number = int(t)
     if era is None:
         return number
@@ -339,8 +339,8 @@ def format_date(jd: ArrayLike, calendar: Calendar = "auto"):
     The day is the civil day on the same time scale as ``jd`` (fractions are dropped).
     Returns a ``str`` for a scalar and an array of ``str`` otherwise.
 
-    >>> format_date(julian_day(-3199, 11, 3.25)), format_date(julian_day(2027, 2, 3.6))
-    ('-3199-11-03', '2027-02-03')
+    >>> format_date(julian_day(-2599, 3, 19.25)), format_date(julian_day(2027, 2, 3.6))
+    ('-2599-03-19', '2027-02-03')
     """
     y, m, d = calendar_date(jd, calendar)
     if np.ndim(y) == 0:
@@ -351,10 +351,10 @@ def format_date(jd: ArrayLike, calendar: Calendar = "auto"):
 
 
 def date_label(jd: float, calendar: Calendar = "auto") -> str:
-    """A date for people, with its calendar named: ``"3200 BC November 3 (Julian)"``.
+    """A date for people, with its calendar named: ``"2600 BC March 19 (Julian)"``.
 
-    >>> date_label(julian_day(-3199, 11, 3.5)), date_label(julian_day(2027, 2, 3.0))
-    ('3200 BC November 3 (Julian)', '2027 February 3 (Gregorian)')
+    >>> date_label(julian_day(-2599, 3, 19.5)), date_label(julian_day(2027, 2, 3.0))
+    ('2600 BC March 19 (Julian)', '2027 February 3 (Gregorian)')
     """
     y, m, d = calendar_date(float(jd), calendar)
     used = str(calendar_for(float(jd), calendar))

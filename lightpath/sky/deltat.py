@@ -36,8 +36,8 @@ when σ is half an hour.
 63.8
 >>> round(float(delta_t_sigma_s(2451545.0)), 1)
 0.1
->>> jd_ut = julian_day(-3199, 11, [3 + 9.07 / 24, 3 + 0.67 / 24])   # 3200 BC, 09:04 and 00:40 UT
->>> [bool(v) for v in ut_date_uncertain(tt_from_ut(jd_ut))]   # 2σ of ΔT ≈ 67 min
+>>> jd_ut = julian_day(-2599, 3, [19 + 9.07 / 24, 19 + 0.67 / 24])   # 2600 BC, 09:04 and 00:40 UT
+>>> [bool(v) for v in ut_date_uncertain(tt_from_ut(jd_ut))]   # 2σ of ΔT ≈ 52 min
 [False, True]
 
 References
@@ -236,8 +236,8 @@ def ut_date_uncertain(jd_tt: ArrayLike, delta_t_override_s: ArrayLike | None = N
 
     >>> import numpy as np
     >>> from lightpath.sky.calendar import julian_day
-    >>> jd_ut = julian_day(np.array([-3199, -3199, 2000]), 1, [1 + 9.07 / 24, 1 + 0.67 / 24, 1 + 0.67 / 24])
-    >>> [bool(v) for v in ut_date_uncertain(tt_from_ut(jd_ut))]   # 09:04 and 00:40 UT in 3200 BC; AD 2000
+    >>> jd_ut = julian_day(np.array([-2599, -2599, 2000]), 1, [1 + 9.07 / 24, 1 + 0.67 / 24, 1 + 0.67 / 24])
+    >>> [bool(v) for v in ut_date_uncertain(tt_from_ut(jd_ut))]   # 09:04 and 00:40 UT in 2600 BC; AD 2000
     [False, True, False]
 
     References

@@ -272,12 +272,12 @@ def divisions(
     Examples
     --------
     >>> from lightpath.sky.observer import Observer
-    >>> site = Observer(latitude_deg=53.0, longitude_deg=-6.5)
-    >>> d = divisions(-3199, "time", 8, observer=site)
-    >>> [(x.name, x.date) for x in d[:3]]  # Julian dates, ~25 days later in the year than today's then
-    [('december_solstice', '-3199-01-13'), ('cross_quarter_feb', '-3199-03-01'), ('march_equinox', '-3199-04-17')]
+    >>> site = Observer(latitude_deg=53.452, longitude_deg=104.637)   # the invented Larchfold demo site
+    >>> d = divisions(-2599, "time", 8, observer=site)
+    >>> [(x.name, x.date) for x in d[:3]]  # Julian dates, ~20 days later in the year than today's then
+    [('december_solstice', '-2599-01-10'), ('cross_quarter_feb', '-2599-02-25'), ('march_equinox', '-2599-04-13')]
     >>> d[0].calendar, round(d[0].declination_deg, 2), round(d[0].sunrise_azimuth_deg, 1)
-    ('julian', -24.04, 131.6)
+    ('julian', -23.98, 132.0)
     """
     schemes = _check(year, scheme, parts, anchor, calendar, observer)
     y = int(year)

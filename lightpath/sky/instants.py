@@ -6,9 +6,9 @@ Accepted forms (a date alone means 00:00)::
     2027-02-03 07:40:30.5       UT, with seconds
     2027-02-03T07:40Z           UT
     2027-02-03T09:40+02:00      civil time with a UTC offset (also +0200, -07, -0700)
-    -3199-11-03T06:10           astronomical year (0 = 1 BC, -3199 = 3200 BC)
-    3200 BC-11-03T06:10         the same instant, written with BC (also BCE, AD, CE)
-    3200 BC-12-21T08:00 LAT     local apparent solar time at the site
+    -2599-03-19T06:10           astronomical year (0 = 1 BC, -2599 = 2600 BC)
+    2600 BC-03-19T06:10         the same instant, written with BC (also BCE, AD, CE)
+    1500 BC-02-16T18:00 LAT     local apparent solar time at the site
     2027-02-03T07:40 TT         Terrestrial Time (also " UT" / " UTC")
     JD2451545.0                 Julian date in UT
     JDE2451545.0                Julian ephemeris date (TT)
@@ -16,13 +16,13 @@ Accepted forms (a date alone means 00:00)::
 Dates are read in the proleptic Julian calendar before 1582 October 15 and the
 Gregorian calendar from then on, unless a calendar is forced.
 
->>> p = parse_instant("3200 BC-11-03T06:10")
+>>> p = parse_instant("2600 BC-03-19T06:10")
 >>> p.scale, p.calendar, round(p.jd, 5)
-('UT', 'julian', 552929.75694)
+('UT', 'julian', 771850.75694)
 >>> parse_instant("2027-02-03T09:40+02:00").jd == parse_instant("2027-02-03T07:40").jd
 True
->>> format_instant(parse_instant("3200 BC-11-03T06:10").jd)
-'-3199-11-03T06:10:00'
+>>> format_instant(parse_instant("2600 BC-03-19T06:10").jd)
+'-2599-03-19T06:10:00'
 
 References
 ----------
@@ -72,8 +72,8 @@ Scale = Literal["UT", "TT", "LAT"]
 
 #: One line listing the accepted forms (used in error messages and help texts).
 ACCEPTED_FORMS = (
-    "YYYY-MM-DD[THH:MM[:SS]][Z|+HH:MM] (UT unless an offset is given), '3200 BC-11-03T06:10', "
-    "'-3199-11-03', JD2451545.0 (UT), JDE2451545.0 (TT); end with ' LAT' for local apparent solar time "
+    "YYYY-MM-DD[THH:MM[:SS]][Z|+HH:MM] (UT unless an offset is given), '2600 BC-03-19T06:10', "
+    "'-2599-03-19', JD2451545.0 (UT), JDE2451545.0 (TT); end with ' LAT' for local apparent solar time "
     "or ' TT' for Terrestrial Time"
 )
 

@@ -1,6 +1,6 @@
 """Where the Sun is seen from: a point on the Earth and its air.
 
->>> obs = Observer(latitude_deg=53.0, longitude_deg=-7.5, elevation_m=60.0)
+>>> obs = Observer(latitude_deg=53.452, longitude_deg=104.637, elevation_m=548.0)
 >>> obs.refraction
 'bennett1982'
 """
@@ -30,7 +30,7 @@ class Observer:
     temperature_c : air temperature for refraction, degrees Celsius.
     pressure_mbar : air pressure for refraction, millibars (hPa).
     refraction : ``"bennett1982"``, ``"saemundsson1986"`` or ``None`` (geometric only).
-    timezone : IANA time zone name for civil times (e.g. ``"Europe/Dublin"``), or ``None``.
+    timezone : IANA time zone name for civil times (e.g. ``"Asia/Irkutsk"``), or ``None``.
     """
 
     latitude_deg: float

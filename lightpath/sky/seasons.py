@@ -258,7 +258,7 @@ def quarter_days(
 
     Parameters
     ----------
-    years : year or array of years, astronomical numbering (0 = 1 BC, −3199 = 3200 BC), −10000…+2999.
+    years : year or array of years, astronomical numbering (0 = 1 BC, −2599 = 2600 BC), −10000…+2999.
         The quarter days of ``Y`` are those falling in year ``Y`` of the proleptic Gregorian calendar
         (see the module notes for the Julian calendar).
     source : Sun position source for :func:`lightpath.sky.sun.geocentric_sun` (``"auto"``, ``"jpl"``, ``"vsop87"``).
@@ -356,7 +356,7 @@ def year_span_source(first_year: int, last_year: int, source: str = "auto") -> s
     """The concrete source for everything from the December solstice of ``first_year − 1`` to the end of
     ``last_year`` (see :func:`concrete_source`).
 
-    >>> year_span_source(2000, 2000), year_span_source(-3199, -3199)
+    >>> year_span_source(2000, 2000), year_span_source(-2599, -2599)
     ('jpl', 'vsop87')
     """
     span = julian_day(
