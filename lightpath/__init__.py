@@ -3,10 +3,10 @@
 A small public API for notebooks; the command line is a thin layer over it.
 
 >>> import lightpath
->>> obs = lightpath.Observer(latitude_deg=52.9, longitude_deg=-8.7)
->>> jd = lightpath.julian_day(2027, 6, 21.5)
+>>> obs = lightpath.Observer(latitude_deg=38.947, longitude_deg=-98.412)
+>>> jd = lightpath.julian_day(2027, 6, 21.5 + 6.5 / 24)  # 18:30 UT, near local noon at 98.4° W
 >>> sun = lightpath.sun_position(jd, obs)
->>> bool(sun.altitude_deg > 55)
+>>> bool(sun.altitude_deg > 70)
 True
 
 Names are imported on first use, so ``import lightpath`` stays quick.
@@ -62,8 +62,17 @@ _EXPORTS = {
     "prepare_window": "lightpath.light.scan",
     "scan_scene": "lightpath.light.scan",
     "scan_window": "lightpath.light.scan",
-    "scan_window_with": "lightpath.light.scan",
-    "ScanOptions": "lightpath.light.scan",
+    "scan_year": "lightpath.light.scan",
+    "ScanOptions": "lightpath.light.options",
+    "WindowOptions": "lightpath.light.options",
+    "Conditions": "lightpath.light.options",
+    "year_sky": "lightpath.light.year",
+    "year_light": "lightpath.light.year",
+    "SunTrack": "lightpath.light.track",
+    "LightEvent": "lightpath.light.results",
+    "DivisionLight": "lightpath.light.results",
+    "ScanResult": "lightpath.light.results",
+    "LightDays": "lightpath.study.light_days",
     # study: claims and visits
     "framing_test": "lightpath.study.framing",
     "alignment_epochs": "lightpath.study.epochs",
