@@ -371,10 +371,10 @@ def check(name: str, site: dict) -> None:
     result = scan_scene(load_scene(OUT / name / "scene.toml"), [site["epoch_year"]], samples=300, parts=site["parts"])
     year = result.years[0]
     for run in year.divisions:
-        if run.first_date:
+        if run.days:
             print(
-                f"    light around {run.name}: {run.first_date} .. {run.last_date} ({year.calendar}), "
-                f"{run.days} days, {run.first_offset_days:+.0f} .. {run.last_offset_days:+.0f} days from it"
+                f"    light around {run.name}: {run.days} days, {run.first_offset_days:+d} .. "
+                f"{run.last_offset_days:+d} days from it ({run.calendar} calendar)"
             )
 
 
