@@ -26,8 +26,10 @@ positions ``division_k_of_N``.  Only in the ``longitude`` scheme is ``march_equi
 equinox; in ``time`` it is the time midpoint between the solstices, in ``declination`` the instant of
 declination 0 (within two minutes of the equinox), in ``days`` the day a quarter of the whole-day count on.
 
-Dates are civil days in local mean solar time at the site (UT + longitude/15 h) when an ``observer`` is
-given, else in UT; ``days`` also counts its days in that time.  Far back ΔT's uncertainty (hours before
+Dates are local apparent days at the site (the day between two local apparent midnights,
+:func:`lightpath.sky.instants.local_apparent_day_number`) when an ``observer`` is given, else UT days; the
+``days`` scheme counts its whole days in local mean solar time (UT + longitude/15 h), at whose noons its
+instants sit, which fall on the same local apparent days.  Far back ΔT's uncertainty (hours before
 3000 BC) can move such a day.
 
 >>> [d.name for d in divisions(2000, "longitude", 4)]
@@ -53,6 +55,7 @@ from numpy.typing import NDArray
 from lightpath.errors import InputError
 from lightpath.sky.calendar import CALENDARS, calendar_for, format_date
 from lightpath.sky.deltat import tt_from_ut, ut_from_tt
+from lightpath.sky.instants import local_apparent_day_number
 from lightpath.sky.observer import Observer
 from lightpath.sky.riseset import rise_set_azimuths
 from lightpath.sky.seasons import (
@@ -95,7 +98,9 @@ class Division:
     ----------
     scheme, index, name : the scheme, k (0 = start of the year) and the position's name.
     jd_tt, jd_ut : the instant, Julian dates in TT and UT1 (for ``days``: local mean noon of the day).
-    date, calendar : the civil date (``YYYY-MM-DD``, astronomical years) and its calendar.
+    day : the local apparent day at the site holding the instant (an integer Julian day number whose noon is
+        local apparent noon), or the UT day without an observer: the day convention of every result.
+    date, calendar : that day as ``YYYY-MM-DD`` (astronomical years, a label for tables) and its calendar.
     days_from_start : days from the December solstice of ``Y − 1`` (for ``days`` anchored in June: from the
         June solstice of ``Y``).
     part_days : length of the part that starts here, days (whole days in the ``days`` scheme).
@@ -123,6 +128,7 @@ class Division:
     sunset_last_gleam_azimuth_deg: float = float("nan")
     sunrise_full_disc_azimuth_deg: float = float("nan")
     sunset_full_disc_azimuth_deg: float = float("nan")
+    day: int = 0
 
 
 def division_name(position: Fraction) -> str:
@@ -299,9 +305,15 @@ def divisions(
         sun = _sun(jd, source)
         dec = np.asarray(sun.declination_deg, dtype=float)
         jd_ut = np.asarray(ut_from_tt(jd), dtype=float)
-        local = jd_ut + lon / 360.0
-        dates = format_date(local, calendar)
-        cals = calendar_for(local, calendar)
+        if observer is not None:
+            from lightpath.sky.sun import sun_position
+
+            lat_h = np.asarray(sun_position(jd, observer, source=source).local_apparent_time_h, dtype=float)
+            day = np.atleast_1d(local_apparent_day_number(jd_ut, lon, lat_h))
+        else:
+            day = np.floor(jd_ut + 0.5).astype(np.int64)  # the UT day
+        dates = format_date(day.astype(float), calendar)
+        cals = calendar_for(day.astype(float), calendar)
         az = {}
         if observer is not None:
             s_deg = _SEMIDIAMETER_1AU_DEG / np.asarray(sun.distance_au, dtype=float)
@@ -338,6 +350,7 @@ def divisions(
                     sunset_last_gleam_azimuth_deg=float(sets["upper"][i]),
                     sunrise_full_disc_azimuth_deg=float(rise["lower"][i]),
                     sunset_full_disc_azimuth_deg=float(sets["lower"][i]),
+                    day=int(day[i]),
                 )
             )
     return out
