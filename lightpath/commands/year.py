@@ -7,7 +7,7 @@ Examples (shell)::
     lightpath year --site 38.947,-98.412 --year 2027 --parts 16 --scheme days --json
     lightpath year --site 47.10,12.30 --year -2499 --horizon skyline.csv --csv divisions.csv
 
-Dates are civil days in local mean solar time at the site (UT + longitude/15 h); see ``docs/divisions.md``.
+Dates are local apparent days at the site, the day convention of every result; see ``docs/divisions.md``.
 """
 
 from __future__ import annotations
@@ -20,8 +20,6 @@ import math
 import sys
 import warnings
 
-import numpy as np
-
 from lightpath.commands._common import (
     add_air_options,
     add_output_options,
@@ -31,18 +29,11 @@ from lightpath.commands._common import (
 )
 from lightpath.errors import InputError
 from lightpath.files import write_text_atomic
-from lightpath.sky.calendar import CALENDARS, calendar_for, format_date, year_from_label, year_label
-from lightpath.sky.deltat import delta_t_sigma_s, ut_from_tt
-from lightpath.sky.divisions import ANCHORS, SCHEMES, Division, divisions
-from lightpath.sky.instants import format_local_apparent, local_apparent_day_number
+from lightpath.sky.calendar import CALENDARS, format_date, year_from_label, year_label
+from lightpath.sky.divisions import ANCHORS, SCHEMES, Division
+from lightpath.sky.instants import format_local_apparent
 from lightpath.sky.observer import Observer
-from lightpath.sky.seasons import (
-    QUARTER_NAMES,
-    half_years,
-    opening_december_solstice,
-    quarter_days,
-    season_lengths,
-)
+from lightpath.sky.year_structure import year_structure
 
 __all__ = ["HELP", "NAME", "SOURCES", "add_arguments", "run", "year_document"]
 
@@ -52,10 +43,7 @@ HELP = "quarter days, season lengths and divisions of the year (four definitions
 #: Sun position sources offered on the command line.
 SOURCES = ("auto", "jpl", "vsop87")
 
-_TIME_BASIS = (
-    "local mean solar time at the site (UT + longitude/15 h); quarter days: local apparent date beside their "
-    "local apparent time"
-)
+_TIME_BASIS = "local apparent days at the site; quarter days with their local apparent time"
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -102,61 +90,21 @@ def year_document(
     source: str = "auto",
     progress=None,
 ) -> dict:
-    """Everything ``lightpath year --json`` prints, as a dict of plain values (days, degrees).
+    """Everything ``lightpath year --json`` prints: :func:`lightpath.sky.year_structure.year_structure`, with labels.
 
     ``progress`` (optional) is called with no argument after each scheme.
     """
-    from lightpath.sky.sun import sun_position
-
-    schemes = list(SCHEMES) if scheme == "all" else [scheme]
-    divs: list[Division] = []
-    for name in schemes:
-        divs += divisions(
-            year, name, parts, observer=observer, horizon=horizon, source=source, anchor=anchor, calendar=calendar
-        )
-        if progress is not None:
-            progress()
-    q = quarter_days(year, source=source)
-    prev_dec = float(opening_december_solstice(year, source=source))  # December of year - 1
-    names = ["december_solstice", *QUARTER_NAMES]
-    jd_tt = np.array([prev_dec] + [float(q.jd_tt(n)) for n in QUARTER_NAMES], dtype=float)
-    jd_ut = np.asarray(ut_from_tt(jd_tt), dtype=float)
-    pos = sun_position(jd_tt, observer, source=source)
-    sigma = np.asarray(delta_t_sigma_s(jd_tt), dtype=float)
-    lat_h = np.asarray(pos.local_apparent_time_h, dtype=float)
-    day = local_apparent_day_number(jd_ut, observer.longitude_deg, lat_h)  # local apparent date beside LAT
-    dates = format_date(day.astype(float), calendar)
-    cals = calendar_for(day.astype(float), calendar)
-    quarter = [
-        {
-            "name": name,
-            "of_year": int(year - 1 if i == 0 else year),
-            "jd_tt": float(jd_tt[i]),
-            "jd_ut": float(jd_ut[i]),
-            "date": str(dates[i]),
-            "local_apparent_day": int(day[i]),
-            "calendar": str(cals[i]),
-            "local_apparent_time_h": float(lat_h[i]),
-            "delta_t_sigma_s": float(sigma[i]),
-        }
-        for i, name in enumerate(names)
-    ]
-    h = half_years(year, source=source)
-    s = season_lengths(year, source=source)
-    halves = {
-        "december_to_june_days": float(h.december_to_june_days),
-        "june_to_december_days": float(h.june_to_december_days),
-    }
-    seasons = {
-        "december_to_march_days": float(s.december_to_march_days),
-        "march_to_june_days": float(s.march_to_june_days),
-        "june_to_september_days": float(s.june_to_september_days),
-        "september_to_december_days": float(s.september_to_december_days),
-    }
+    ys = year_structure(year, observer, parts=parts, scheme=scheme, anchor=anchor, horizon=horizon,
+                        calendar=calendar, source=source, progress=progress)  # fmt: skip
+    quarter = []
+    for q in ys.quarter_days:
+        row = dataclasses.asdict(q)
+        row["date"] = str(format_date(float(q.local_apparent_day), calendar))
+        quarter.append(row)
     return {
         "year": int(year),
         "year_label": year_label(year),
-        "calendar": _calendar_name([d.calendar for d in divs] + [c["calendar"] for c in quarter]),
+        "calendar": _calendar_name([d.calendar for d in ys.divisions] + [q.calendar for q in ys.quarter_days]),
         "date_time_basis": _TIME_BASIS,
         "site": {
             "latitude_deg": observer.latitude_deg,
@@ -167,13 +115,13 @@ def year_document(
             "temperature_c": observer.temperature_c,
         },
         "horizon": "flat (altitude 0)" if horizon is None else (getattr(horizon, "source", "") or "profile"),
-        "source": q.source,
+        "source": ys.source,
         "parts": int(parts),
         "anchor": anchor,
         "quarter_days": quarter,
-        "half_years": halves,
-        "seasons_days": seasons,
-        "divisions": [dataclasses.asdict(d) for d in divs],
+        "half_years": ys.half_years,
+        "seasons_days": ys.seasons_days,
+        "divisions": [dataclasses.asdict(d) for d in ys.divisions],
     }
 
 
