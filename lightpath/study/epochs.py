@@ -30,7 +30,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
@@ -163,7 +163,7 @@ def alignment_epochs(
     if (int(to_year) - int(from_year)) // step_years + 1 > MAX_YEARS:
         raise InputError(f"step_years: more than {MAX_YEARS} years asked for (use a larger step)")
     years = list(range(int(from_year), int(to_year) + 1, step_years))
-    light = replace(light, names=(division,), _cache=dict(light._cache))
+    light = light.with_names((division,))
     tol = tolerances if tolerances is not None else Tolerances()
     tol = Tolerances(**{**tol.__dict__, "epoch_years": 0.0})
     obs = light.observer

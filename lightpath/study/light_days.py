@@ -73,6 +73,12 @@ class LightDays:
         state["_cache"] = {}
         return state
 
+    def with_names(self, names: tuple[str, ...] | None) -> LightDays:
+        """The same window, site and settings reporting other divisions; the years' sky is shared."""
+        out = LightDays(self.window, self.observer, self.options, names)
+        out._cache = self._cache
+        return out
+
     @property
     def criterion(self) -> str:
         return self.options.criterion
