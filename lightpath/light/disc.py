@@ -10,11 +10,19 @@ Optional limb darkening uses the linear law I(μ) = 1 − u (1 − μ) (Milne 19
 built as a stack of eight uniform discs (layer-cake decomposition).  Look-ups
 are bilinear between cell centres.
 
-The horizon profile is applied at look-up as a second fraction: the part of the
-disc above a straight horizon line at the profile's apparent altitude at the
-Sun's azimuth (a circular segment).  The two fractions are multiplied: exact
-when either is 0 or 1, an approximation only during the minute or two when the
-horizon and an edge of the structure cut the disc together.
+The horizon profile is applied at look-up: the skyline is a straight line at the
+profile's apparent altitude at the Sun's azimuth, and the part of the disc above
+it is a circular segment (:func:`horizon_fraction`).  When the skyline cuts the
+disc and the structure shows only part of it too, the fraction is that of the
+disc points that pass **both** (the joint rule): the disc is cut into
+:data:`JOINT_ROWS` strips parallel to the skyline, each strip's share of the disc
+seen through the window is sampled at points along its middle (nearest cell of
+the raw mask), and the strips count by their exact area above the skyline line.
+The result is the window fraction scaled by the share of the window-visible disc
+that stands above the skyline, so it equals the window fraction when the
+skyline is below the disc and the segment when the window sees the whole disc.
+Multiplying the two fractions instead over-counts when the opening sees only the
+part of the disc the skyline hides (and under-counts the opposite case).
 
 Criteria, on a sample's visible fraction f of the disc:
 
@@ -48,11 +56,14 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from lightpath.light.grid import hadec_from_enu
+from lightpath.light.joint import JOINT_ROWS, joint_ratio
+from lightpath.light.joint import strip_area as _strip_area
 from lightpath.light.window import SkyWindow
 
 __all__ = [
     "CRITERIA",
     "CRITERION_EDGE",
+    "JOINT_ROWS",
     "LIMB_DARKENING_U",
     "SEMIDIAMETER_DEG",
     "disc_fraction",
@@ -69,16 +80,6 @@ CRITERIA = {"first-gleam": 1e-3, "half-disc": 0.5, "full-disc": 0.99}
 SEMIDIAMETER_DEG = 959.63 / 3600.0
 #: Linear limb-darkening coefficient for visible light (Cox 2000, from memory).
 LIMB_DARKENING_U = 0.6
-
-
-def _strip_area(t0: NDArray, t1: NDArray) -> NDArray:
-    """∫ 2 √(1 − t²) dt from t0 to t1 (unit-circle strip area), t clipped to [−1, 1]."""
-
-    def s(t):
-        t = np.clip(t, -1.0, 1.0)
-        return t * np.sqrt(1.0 - t * t) + np.arcsin(t)
-
-    return s(t1) - s(t0)
 
 
 def _uniform_fractions(window: SkyWindow, radius_deg: float) -> NDArray:
@@ -255,7 +256,14 @@ def disc_fraction(
         val = val**1.5
     elif edge == "high":
         val = 1.0 - val**1.5
-    out[m, k] = val * hfac[m]
+    factor = hfac[m]
+    both = (factor > 0.0) & (factor < 1.0) & (val > 0.0) & (val < 1.0)  # skyline and structure both cut the disc
+    if np.any(both):
+        z = (_horizon_altitude(window, azimuth, horizon_offset_deg) - altitude) / semidiameter_deg
+        ratio = joint_ratio(window, s[m[both]], k[both], z[m[both]], rotation, semidiameter_deg)
+        factor = factor.copy()
+        factor[both] = np.where(np.isnan(ratio), factor[both], ratio)
+    out[m, k] = val * factor
     return out
 
 
