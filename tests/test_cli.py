@@ -58,9 +58,9 @@ def test_public_api_names_resolve():
 
 
 def test_accuracy_warning_becomes_one_line_notice():
-    # 3200 BC is before the span checked against JPL DE406, so the Sun source warns.
+    # 4000 BC is before the span checked against JPL DE406, so the Sun source warns.
     proc = subprocess.run(
-        [sys.executable, "-m", "lightpath", "sun", "--site", "52.91,-8.66", "--at", "3200 BC-12-21T08:00 LAT"],
+        [sys.executable, "-m", "lightpath", "sun", "--site", "53.452,104.637", "--at", "4000 BC-04-20T08:00 LAT"],
         capture_output=True,
         text=True,
     )

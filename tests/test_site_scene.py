@@ -274,7 +274,7 @@ def test_glb_scene_y_up(tmp_path, room):
 
 
 def test_the_documented_examples_load(tmp_path):
-    """The TOML examples in docs/scene-format.md are valid scenes (run beside the passage demo's files)."""
+    """The TOML examples in docs/scene-format.md are valid scenes (run beside the bent-passage demo's files)."""
     import re
     import shutil
     from pathlib import Path
