@@ -22,6 +22,7 @@ import argparse
 from lightpath.commands._common import progress_bar
 from lightpath.commands.frame import STUDY_FLAGS, add_study_options, as_option_error, emit, open_study, study_backend
 from lightpath.errors import InputError
+from lightpath.present.tables import settings_line
 
 __all__ = ["HELP", "NAME", "add_arguments", "format_text", "run"]
 
@@ -82,6 +83,8 @@ def format_text(result, backend: str) -> list[str]:
         + " days per century (least squares)",
         f"dates: local apparent days, {cal} calendar, astronomical years; first/last: days from the division's day",
     ]
+    if result.settings is not None:
+        lines.append(f"settings: {settings_line(result.settings)}")
     lines += [f"note: {n}" for n in result.notes]
     return lines
 

@@ -29,6 +29,7 @@ from lightpath.commands._common import (
     engine_options,
     print_json,
     progress_bar,
+    settings_line,
     to_jsonable,
 )
 from lightpath.errors import InputError
@@ -165,7 +166,7 @@ def _range(p: dict) -> str:
     return f"{p['p5']:+.0f}..{p['p95']:+.0f}"
 
 
-def format_text(result, backend: str, light=None) -> list[str]:
+def format_text(result, backend: str) -> list[str]:
     """The human-readable report of a :class:`~lightpath.study.framing.FramingResult`."""
     from lightpath.present.tables import day_date, division_label
     from lightpath.sky.calendar import year_label
@@ -204,9 +205,8 @@ def format_text(result, backend: str, light=None) -> list[str]:
         "framing this division / any division; p, p(any): (k+1)/(n+1) for a null orientation bringing light at least "
         "as close; h: Cohen's effect size of P(framed) against the null rate",
     ]
-    if light is not None:
-        s = light.window
-        lines.append(f"settings: {s.samples} target samples, {s.resolution_deg:g}° window cells")
+    if result.settings is not None:
+        lines.append(f"settings: {settings_line(result.settings)}")
     lines += [f"note: {n}" for n in result.notes]
     return lines
 
@@ -241,5 +241,5 @@ def run(args: argparse.Namespace) -> int:
     finally:
         if client is not None:
             client.close()
-    emit(args, result, format_text(result, backend, light))
+    emit(args, result, format_text(result, backend))
     return 0

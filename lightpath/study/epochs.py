@@ -37,6 +37,8 @@ import numpy as np
 from numpy.typing import NDArray
 
 from lightpath.errors import InputError
+from lightpath.light.results import ScanSettings
+from lightpath.light.scan import scan_settings
 from lightpath.study.execution import run_draws
 from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.uncertainty import Tolerances, make_draws, nominal_draw
@@ -83,6 +85,7 @@ class EpochsResult:
     spans_likely: list[dict[str, Any]]  # probability_inside ≥ 0.5
     drift_first_days_per_century: float | None
     drift_last_days_per_century: float | None
+    settings: ScanSettings | None = None  # the engine's settings (samples and cell size beside the days)
     notes: list[str] = field(default_factory=list)
 
 
@@ -221,6 +224,7 @@ def alignment_epochs(
         seed=int(seed),
         tolerances=dict(tol.__dict__),
         rows=rows,
+        settings=scan_settings(light.window, light.observer, light.options, seed),
         spans_inside=_span_dicts(spans_of(years, [r.inside for r in rows])),
         spans_likely=_span_dicts(spans_of(years, [r.probability_inside >= 0.5 for r in rows])),
         drift_first_days_per_century=drift_days_per_century(yrs, results[:, 0, 1]),

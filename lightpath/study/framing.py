@@ -42,6 +42,8 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from lightpath.errors import InputError
+from lightpath.light.results import ScanSettings
+from lightpath.light.scan import scan_settings
 from lightpath.light.year import MARGIN_DAYS
 from lightpath.study.execution import run_draws
 from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
@@ -182,6 +184,7 @@ class FramingResult:
     facing_azimuth_deg: float  # azimuth of the target→opening axis
     null_model: dict[str, Any]
     divisions: list[DivisionFraming]
+    settings: ScanSettings | None = None  # the engine's settings (samples and cell size beside the days)
     notes: list[str] = field(default_factory=list)
 
 
@@ -339,5 +342,6 @@ def framing_test(
             "p = (k + 1)/(n + 1), k = orientations at least as close",
         },
         divisions=out,
+        settings=scan_settings(light.window, light.observer, light.options, seed),
         notes=notes,
     )
