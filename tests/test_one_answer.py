@@ -69,6 +69,22 @@ def test_scan_and_the_studies_give_the_same_days(demo):
     assert (epochs.rows[0].first_day, epochs.rows[0].last_day) == scan_runs[target][:2]
 
 
+def test_the_report_gives_the_scan_days(demo):
+    """The report's data (study.report_data) with the same settings: the same runs and events as scan."""
+    from lightpath.study.report_data import report_data
+
+    name, scene, window, options = demo
+    year = DEMO_YEARS[name]
+    y, scan_runs = _scan_runs(scene, window, options, year)
+    data = report_data(scene, year, options=options, window_options=WINDOW)
+    r = data.scan.years[0]
+    assert {d.name: (d.first_offset_days, d.last_offset_days, d.days) for d in r.divisions} == scan_runs
+    assert [(e.day, e.division, e.offset_days) for e in r.events] == [
+        (e.day, e.division, e.offset_days) for e in y.events
+    ]
+    assert data.scan.settings.samples == WINDOW.samples and data.scan.settings.resolution_deg == WINDOW.resolution_deg
+
+
 def test_visit_gives_the_scan_events_of_a_modern_year():
     scene = load_scene(demo_scene_path("quillfield"))
     window = prepare_window(scene, WINDOW)
