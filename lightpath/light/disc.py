@@ -152,8 +152,8 @@ def disc_fractions(
     Cached on the window for each (semidiameter, u).
     """
     key = (round(float(semidiameter_deg), 9), None if limb_darkening_u is None else float(limb_darkening_u))
-    if key in window._fractions:
-        return window._fractions[key]
+    if key in window.derived:
+        return window.derived[key]
     if limb_darkening_u is None:
         frac = _uniform_fractions(window, semidiameter_deg)
     else:
@@ -172,7 +172,7 @@ def disc_fractions(
             else:  # a disc smaller than a cell: the cell's own mask
                 frac += np.float32(w) * window.escape.astype(np.float32)
         frac /= np.float32(weights.sum())
-    window._fractions[key] = frac
+    window.derived[key] = frac
     return frac
 
 
@@ -282,8 +282,8 @@ def _sample_blocks(window: SkyWindow, semidiameter_deg: float, limb_darkening_u:
     fraction > 0.  Cached on the window.
     """
     key = ("blocks", round(float(semidiameter_deg), 9), limb_darkening_u)
-    if key in window._fractions:
-        return window._fractions[key]
+    if key in window.derived:
+        return window.derived[key]
     frac = disc_fractions(window, semidiameter_deg, limb_darkening_u)
     g, b = window.grid, BLOCK_CELLS
     n_bh, n_bd = -(-g.n_h // b), _n_blocks_d(window)
@@ -315,8 +315,8 @@ def _sample_blocks(window: SkyWindow, semidiameter_deg: float, limb_darkening_u:
     else:
         who = np.zeros(0, np.int64)
         indptr = np.zeros(n_bh * n_bd + 1, np.int64)
-    window._fractions[key] = (indptr.astype(np.int64), who)
-    return window._fractions[key]
+    window.derived[key] = (indptr.astype(np.int64), who)
+    return window.derived[key]
 
 
 #: Which end of the fraction each criterion tests, for :func:`disc_fraction`'s ``edge``.
@@ -330,10 +330,10 @@ def _edge_table(window: SkyWindow, semidiameter_deg: float, limb_darkening_u: fl
     if edge not in ("low", "high"):
         raise ValueError(f"edge {edge!r} is not one of low, high, None")
     key = ("edge", edge, round(float(semidiameter_deg), 9), limb_darkening_u)
-    if key not in window._fractions:
+    if key not in window.derived:
         base = frac if edge == "low" else 1.0 - frac
-        window._fractions[key] = np.power(np.clip(base, 0.0, 1.0), np.float32(2.0 / 3.0)).astype(np.float32)
-    return window._fractions[key]
+        window.derived[key] = np.power(np.clip(base, 0.0, 1.0), np.float32(2.0 / 3.0)).astype(np.float32)
+    return window.derived[key]
 
 
 def meets(fraction: ArrayLike, criterion: str) -> NDArray[np.bool_]:

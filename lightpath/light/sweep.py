@@ -73,8 +73,8 @@ def sun_enu(sun: Callable, jd_tt: ArrayLike):
 def union_map(window: SkyWindow, limb_darkening_u: float | None = None) -> NDArray[np.bool_]:
     """(n_h, n_d) bool: cells of the whole grid where some sample sees part of the disc."""
     key = ("union", limb_darkening_u)
-    if key in window._fractions:
-        return window._fractions[key]
+    if key in window.derived:
+        return window.derived[key]
     frac = disc_fractions(window, SEMIDIAMETER_DEG, limb_darkening_u)
     g = window.grid
     union = np.zeros((g.n_h, g.n_d), bool)
@@ -83,7 +83,7 @@ def union_map(window: SkyWindow, limb_darkening_u: float | None = None) -> NDArr
     jj = window.d0[s] + j
     ok = (jj >= 0) & (jj < g.n_d)
     union[k[ok], jj[ok]] = True
-    window._fractions[key] = union
+    window.derived[key] = union
     return union
 
 
@@ -91,11 +91,11 @@ def _in_union(window: SkyWindow, directions: NDArray, rotation, limb_darkening_u
     """(M,) bool: the direction's cell, or one within 2 cells, is in the union of the windows."""
     g = window.grid
     key = ("union+2", limb_darkening_u)
-    if key not in window._fractions:
+    if key not in window.derived:
         u = union_map(window, limb_darkening_u).astype(np.uint8)
         u = maximum_filter1d(u, size=5, axis=0, mode="wrap")
-        window._fractions[key] = maximum_filter1d(u, size=5, axis=1) > 0
-    grown = window._fractions[key]
+        window.derived[key] = maximum_filter1d(u, size=5, axis=1) > 0
+    grown = window.derived[key]
     look = directions if rotation is None else directions @ np.asarray(rotation, dtype=np.float64)
     fh, fd = g.fractional_index(*hadec_from_enu(g.latitude_deg, look))
     k = np.mod(np.rint(fh).astype(np.int64), g.n_h)
@@ -201,11 +201,11 @@ def find_light(
     h, d = hadec_from_enu(g.latitude_deg, look)
     fh, fd = g.fractional_index(h, d)
     wkey = ("widened", limb_darkening_u, float(coarse_min))
-    if wkey not in window._fractions:
+    if wkey not in window.derived:
         grown = _widen_h(union, int(math.ceil(coarse_min * H_RATE_DEG_PER_MIN / g.resolution_deg)) + 2)
         grown = maximum_filter1d(grown.astype(np.uint8), size=2 * int(math.ceil(0.3 / g.resolution_deg)) + 1, axis=1)
-        window._fractions[wkey] = grown > 0
-    widened = window._fractions[wkey]
+        window.derived[wkey] = grown > 0
+    widened = window.derived[wkey]
     k = np.mod(np.rint(fh).astype(int), g.n_h)
     j = np.rint(fd).astype(int)
     inside = (j >= 0) & (j < g.n_d)

@@ -105,7 +105,7 @@ class SkyWindow:
     key: str = ""
     notes: list[str] = field(default_factory=list)
     horizon: object | None = None  # horizon profile (``.altitude_at(az_deg)``, apparent), applied at look-up
-    _fractions: dict = field(default_factory=dict, repr=False, compare=False)
+    derived: dict = field(default_factory=dict, repr=False, compare=False)  # tables made from the mask, by key
 
     @property
     def total_area_m2(self) -> float:
