@@ -77,10 +77,13 @@ def test_csv_round_trip(tmp_path):
 @pytest.mark.parametrize(
     "body, words",
     [
-        ("azimuth_deg,altitude_deg\n0,1\n20,x\n40,1\n", ["line 3", "altitude_deg", "'x'"]),
-        ("azimuth_deg,altitude_deg\n0,1\nnan,1\n", ["line 3", "azimuth_deg", "finite"]),
-        ("azimuth_deg,altitude_deg\n0,1\n20,95\n", ["line 3", "altitude_deg", "-90..90"]),
-        ("az,alt\n0,1\n", ["line 1", "header"]),
+        ("azimuth_deg,altitude_deg\n0,1\n20,x\n40,1\n", ["line 3", "column 2", "altitude", "accepted"]),
+        ("azimuth_deg,altitude_deg\n0,1\nnan,1\n", ["line 3", "column 1", "azimuth", "accepted"]),
+        ("azimuth_deg,altitude_deg\n0,1\n20,95\n", ["line 3", "column 2", "-90..90"]),
+        ("azi,alti\n0,1\n", ["line 1", "header", "az", "alt"]),
+        ("azimuth_deg,altitude_deg\n0,1\n20,1 30 00 W\n40,1\n", ["line 3", "column 2", "not an angle"]),
+        ("# north: magnetic\naz,alt\n" + "".join(f"{a},1\n" for a in range(0, 360, 20)), ["magnetic", "declination"]),
+        ("# north: sideways\nazimuth_deg,altitude_deg\n0,1\n", ["line 1", "north line"]),
         ("azimuth_deg,altitude_deg\n0,1\n10,1\n", ["at least 3"]),
         ("azimuth_deg,altitude_deg\n0,1\n10,1\n20,1\n", ["gap", "340"]),
         ("azimuth_deg,altitude_deg\n0,1,2\n", ["line 2", "2 cells"]),
@@ -94,6 +97,7 @@ def test_csv_bad_inputs(tmp_path, body, words):
         read_horizon_csv(p)
     message = str(info.value)
     assert "bad.csv" in message and "\n" not in message
+    assert "'x'" not in message and "sideways" not in message  # the file's text is never echoed
     for word in words:
         assert word in message
 

@@ -169,7 +169,7 @@ def test_demo_sites_load_cleanly(name):
         (('timezone = "Europe/Madrid"', 'timezone = "Mars/Olympus"'), ["site.timezone", "IANA"]),
         (('groups = ["target"]', 'groups = ["target"]\nfile = "x.obj"'), ["exactly one of", "names and file"]),
         (('groups = ["window"]', 'groups = ["target"]'), ["same faces"]),
-        (("latitude_deg = 40.0", 'latitude_deg = "forty"'), ["site.latitude_deg", "not a finite number"]),
+        (("latitude_deg = 40.0", 'latitude_deg = "forty"'), ["site.latitude_deg", "not an angle", "41°37'12\"N"]),
         (("[site]", "site = 3\n[place]"), ["'site' must be a table"]),
         (("[site]", "[place]\n[site]"), ["unknown table [place]"]),
         (
@@ -212,7 +212,7 @@ def test_empty_target_and_non_finite_vertices(folder):
 
 def test_malformed_horizon_file(folder):
     (folder / "sky.csv").write_text("azimuth_deg,altitude_deg\n0,1\n90,one\n")
-    with pytest.raises(InputError, match=r"sky.csv: line 3, altitude_deg: 'one'"):
+    with pytest.raises(InputError, match=r"sky.csv: line 3, column 2 \(altitude\): not an angle"):
         load_scene(write(folder, BASE + '\n[horizon]\nkind = "csv"\nfile = "sky.csv"\n'))
 
 

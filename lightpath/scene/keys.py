@@ -29,7 +29,7 @@ __all__ = [
     "vector3",
 ]
 
-_SELECT = ("groups", "objects", "materials", "file", "box_min_m", "box_max_m", "polygon_m", "flip_normals")
+_SELECT = ("groups", "objects", "materials", "file", "box_min_m", "box_max_m", "polygon_m", "frame", "flip_normals")
 
 #: Tolerance keys of the optional [tolerances] table: one-sigma survey uncertainties, all ≥ 0.
 TOLERANCE_KEYS = {
@@ -46,7 +46,17 @@ TOLERANCE_KEYS = {
 
 #: table -> allowed keys
 SCHEMA: dict[str, tuple[str, ...]] = {
-    "site": ("label", "latitude_deg", "longitude_deg", "elevation_m", "timezone"),
+    "site": (
+        "label",
+        "latitude_deg",
+        "longitude_deg",
+        "crs",
+        "easting_m",
+        "northing_m",
+        "elevation_m",
+        "timezone",
+        "survey_date",
+    ),
     "model": (
         "file",
         "unit",
@@ -72,14 +82,23 @@ SCHEMA: dict[str, tuple[str, ...]] = {
         "from_m",
         "step_deg",
         "curvature",
+        "files",
+        "max_distance_m",
+        "min_distance_m",
+        "observer_height_m",
+        "cache_dir",
+        "north",
+        "declination_deg",
     ),
     "atmosphere": ("temperature_c", "pressure_mbar", "refraction"),
     "tolerances": tuple(TOLERANCE_KEYS),
     "build": None,  # keys checked by lightpath.site.survey, per builder
 }
 
-#: table -> keys that must be present (tables site, model and target must be present; with [build]: site, build)
-REQUIRED = {"site": ("latitude_deg", "longitude_deg"), "model": ("file", "unit", "up_axis"), "target": ()}
+#: table -> keys that must be present (tables site, model and target must be present; with [build]: site, build).
+#: The site's position (latitude_deg and longitude_deg, or crs, easting_m and northing_m) is checked by
+#: :func:`lightpath.scene.survey.site_from_table`.
+REQUIRED = {"site": (), "model": ("file", "unit", "up_axis"), "target": ()}
 
 
 def _suggest(word: str, options) -> str:

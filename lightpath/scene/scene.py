@@ -36,7 +36,8 @@ import numpy as np
 
 from lightpath.errors import InputError
 from lightpath.scene.keys import TOLERANCE_KEYS, boolean, check_keys, choice, names, number, text, vector3
-from lightpath.scene.terrain import horizon_from_terrain
+from lightpath.scene.survey import POLYGON_FRAMES, SiteSurvey, polygon_in_site, site_from_table
+from lightpath.scene.terrain import horizon_from_dem, horizon_from_terrain
 from lightpath.site import checks
 from lightpath.site.frames import AXES, NORTH_REFERENCES, UNIT_TO_M, apply_transform, model_to_site_matrix
 from lightpath.site.meshes import LabeledMesh, read_mesh
@@ -73,6 +74,7 @@ class Scene:
     report: LoadReport
     warnings: list[str] = field(default_factory=list)
     content_hash: str = ""
+    survey: dict = field(default_factory=dict)  # what was computed from the survey (convergence, declination)
 
 
 def demo_scene_path(name: str) -> Path:
@@ -163,8 +165,12 @@ def hash_geometry(*meshes) -> str:
     return digest.hexdigest()
 
 
-def _model_transform(model_t: dict, where: str, warnings: list[str]) -> tuple[str, np.ndarray]:
-    """The [model] table's unit and file-to-site matrix (appends the no-north warning)."""
+def _model_transform(model_t: dict, where: str, warnings: list[str], survey: SiteSurvey) -> tuple[str, np.ndarray]:
+    """The [model] table's unit and file-to-site matrix (appends the no-north warning).
+
+    Magnetic north without ``declination_deg`` takes the IGRF declination for ``site.survey_date``; grid north
+    without ``convergence_deg`` takes the convergence of ``site.crs`` at the site (pyproj).
+    """
     unit = choice(model_t, "model.unit", where, tuple(UNIT_TO_M))
     up_axis = choice(model_t, "model.up_axis", where, AXES)
     north_axis = choice(model_t, "model.north_axis", where, AXES)
@@ -179,9 +185,19 @@ def _model_transform(model_t: dict, where: str, warnings: list[str]) -> tuple[st
     if north != "grid" and "convergence_deg" in model_t:
         raise InputError(f"{where}: 'model.convergence_deg' is given but model.north is {north!r}, not 'grid'")
     if north == "magnetic" and "declination_deg" not in model_t:
-        raise InputError(f"{where}: missing key 'model.declination_deg' (model.north is 'magnetic'; east positive)")
+        if survey.date is None:
+            raise InputError(
+                f"{where}: missing key 'model.declination_deg' or 'site.survey_date' (model.north is 'magnetic'; "
+                "declination east positive, or a survey date for the geomagnetic model)"
+            )
+        declination = survey.declination_deg()
     if north == "grid" and "convergence_deg" not in model_t:
-        raise InputError(f"{where}: missing key 'model.convergence_deg' (model.north is 'grid')")
+        if survey.crs is None:
+            raise InputError(
+                f"{where}: missing key 'model.convergence_deg' or 'site.crs' (model.north is 'grid'; "
+                "the convergence is computed for a site given by crs, easting_m and northing_m)"
+            )
+        convergence = survey.convergence_deg
     transform = model_to_site_matrix(
         unit,
         up_axis=up_axis,
@@ -196,10 +212,12 @@ def _model_transform(model_t: dict, where: str, warnings: list[str]) -> tuple[st
     return unit, transform
 
 
-def load_scene(path: str | os.PathLike) -> Scene:
+def load_scene(path: str | os.PathLike, *, cache_dir: str | os.PathLike | None = None) -> Scene:
     """Read a scene file and everything it names; return a :class:`Scene` in the site frame.
 
-    Raises :class:`~lightpath.errors.InputError` (one line naming file and key) for any bad input.
+    ``cache_dir`` (or the scene's ``horizon.cache_dir``, relative to the scene file) keeps an elevation model's
+    skyline between runs, keyed by the files' bytes and settings.  Raises :class:`~lightpath.errors.InputError`
+    (one line naming file and key) for any bad input.
     """
     import trimesh
 
@@ -214,9 +232,8 @@ def load_scene(path: str | os.PathLike) -> Scene:
     warnings: list[str] = []
 
     # --- site and air -------------------------------------------------------------------------------------
-    lat = number(site, "site.latitude_deg", where, low=-90.0, high=90.0)
-    lon = number(site, "site.longitude_deg", where, low=-180.0, high=180.0)
-    elevation = number(site, "site.elevation_m", where, 0.0, -500.0, 9000.0)
+    survey = site_from_table(site, where)
+    lat, lon, elevation = survey.latitude_deg, survey.longitude_deg, survey.elevation_m
     timezone = text(site, "site.timezone", where)
     if timezone is not None:
         import zoneinfo
@@ -245,7 +262,17 @@ def load_scene(path: str | os.PathLike) -> Scene:
         if opening_t is None and built.opening_parts:
             opening_t = {"groups": list(built.opening_parts)}
     else:
-        unit, transform = _model_transform(model_t, where, warnings)
+        unit, transform = _model_transform(model_t, where, warnings, survey)
+
+    def surveyed_polygon(table: dict, name: str):
+        frame = choice(table, f"{name}.frame", where, POLYGON_FRAMES, "site")
+        if "polygon_m" not in table:
+            if "frame" in table:
+                raise InputError(f"{where}: '{name}.frame' applies to polygon_m only")
+            return None
+        key = f"{where}: {name}.polygon_m"
+        points = polygon_in_site(table["polygon_m"], frame, survey=survey, transform=transform, key=key)
+        return polygon_mesh(points, key=key)
 
     def read_site_mesh(file_value, key: str) -> LabeledMesh:
         if not isinstance(file_value, str) or not file_value:
@@ -270,6 +297,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
     opening_faces = np.empty(0, dtype=np.int64)
     if opening_t is not None:
         form = _selection_form(opening_t, "opening", where)
+        polygon = surveyed_polygon(opening_t, "opening")
         if form == "names":
             opening_faces = select_by_name(model, _wanted_names(opening_t, "opening", where), f"{where}: opening")
             opening = submesh(model.vertices, model.faces, opening_faces)
@@ -279,7 +307,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
             files.append(extra.path)
             opening = trimesh.Trimesh(extra.vertices, extra.faces, process=False)
         elif form == "polygon":
-            opening = polygon_mesh(opening_t["polygon_m"], key=f"{where}: opening.polygon_m")
+            opening = polygon
         else:
             opening = box_mesh(*_box(opening_t, "opening", where))
         if boolean(opening_t, "opening.flip_normals", where, False):
@@ -287,6 +315,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
 
     # --- target -------------------------------------------------------------------------------------------
     form = _selection_form(target_t, "target", where)
+    polygon = surveyed_polygon(target_t, "target")
     blocking_v, blocking_f = model.vertices, model.faces[keep]
     if form == "names":
         target_faces = select_by_name(model, _wanted_names(target_t, "target", where), f"{where}: target")
@@ -298,7 +327,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
         target = submesh(blocking_v, blocking_f, chosen)
     else:
         if form == "polygon":
-            target = polygon_mesh(target_t["polygon_m"], key=f"{where}: target.polygon_m")
+            target = polygon
             extra = LabeledMesh(np.asarray(target.vertices), np.asarray(target.faces))
         else:
             extra = read_site_mesh(target_t["file"], "target.file")
@@ -315,7 +344,7 @@ def load_scene(path: str | os.PathLike) -> Scene:
         raise InputError(f"{where}: nothing blocks light (the model has only the opening)")
 
     # --- horizon ------------------------------------------------------------------------------------------
-    kind = choice(horizon_t, "horizon.kind", where, ("flat", "csv", "terrain"), "flat")
+    kind = choice(horizon_t, "horizon.kind", where, ("flat", "csv", "terrain", "dem"), "flat")
     terrain_faces = np.empty(0, dtype=np.int64)
     if kind == "flat":
         dip = number(horizon_t, "horizon.dip_deg", where, None, -10.0, 10.0)
@@ -327,7 +356,19 @@ def load_scene(path: str | os.PathLike) -> Scene:
         file_value = text(horizon_t, "horizon.file", where)
         if not file_value:
             raise InputError(f"{where}: missing key 'horizon.file' (horizon.kind is 'csv')")
-        horizon = read_horizon_csv(base / file_value)
+        horizon_north = choice(horizon_t, "horizon.north", where, ("true", "magnetic"))
+        declination = number(horizon_t, "horizon.declination_deg", where, None, -90.0, 90.0)
+        if declination is None and model_t.get("north") == "magnetic" and "declination_deg" in model_t:
+            declination = float(model_t["declination_deg"])
+        if declination is None and survey.date is not None:
+            declination = survey.declination_deg()
+        try:
+            horizon = read_horizon_csv(base / file_value, north=horizon_north, declination_deg=declination)
+        except InputError as exc:
+            raise InputError(f"{where}: 'horizon.file': {exc}") from None
+    elif kind == "dem":
+        horizon, notes = _dem_horizon(horizon_t, where, base, survey, opening, cache_dir)
+        warnings += notes
     else:
         wanted = _wanted_names(horizon_t, "horizon", where)
         if not wanted:
@@ -356,6 +397,8 @@ def load_scene(path: str | os.PathLike) -> Scene:
     warnings += scale
     warnings += checks.target_area_warnings(float(target.area))
     warnings += checks.facing_warnings(target, opening)
+    if "build" not in data:
+        warnings += checks.frame_warnings(model.vertices, model.faces[structure], target, opening)
     if opening is None:
         warnings.append("no [opening] given: the whole sky is searched for light (slower, may miss small windows)")
     report = load_report(
@@ -373,4 +416,42 @@ def load_scene(path: str | os.PathLike) -> Scene:
         report=report,
         warnings=warnings,
         content_hash=hash_geometry(mesh, target, opening),
+        survey=survey.info(),
     )
+
+
+def _dem_horizon(horizon_t: dict, where: str, base: Path, survey: SiteSurvey, opening, cache_dir):
+    """``[horizon] kind = "dem"``: the elevation model's skyline from the opening (or ``from_m``)."""
+    from lightpath.site.dem import offset_geographic
+
+    files = horizon_t.get("files")
+    if isinstance(files, str):
+        files = [files]
+    if not (isinstance(files, list) and files and all(isinstance(f, str) and f for f in files)):
+        raise InputError(f"{where}: 'horizon.files' must name one or more GeoTIFF files, e.g. [\"dem.tif\"]")
+    default_from = np.asarray(opening.vertices).mean(axis=0) if opening is not None else np.zeros(3)
+    from_m = vector3(horizon_t, "horizon.from_m", where, default_from)
+    lat, lon = offset_geographic(survey.latitude_deg, survey.longitude_deg, from_m[0], from_m[1])
+    height = number(horizon_t, "horizon.observer_height_m", where, None, -100.0, 1000.0)
+    eye = None
+    if height is None:
+        if survey.elevation_given:
+            eye = survey.elevation_m + float(from_m[2])  # the viewpoint's own elevation
+        else:
+            height = 1.6  # eye height of a standing adult, metres (common practice, no published source)
+    folder = text(horizon_t, "horizon.cache_dir", where)
+    cache = cache_dir if cache_dir is not None else (base / folder if folder else None)
+    try:
+        return horizon_from_dem(
+            [base / f for f in files],
+            lat,
+            lon,
+            observer_height_m=1.6 if height is None else height,
+            eye_elevation_m=eye,
+            step_deg=number(horizon_t, "horizon.step_deg", where, 0.5, 0.01, 30.0),
+            max_distance_m=number(horizon_t, "horizon.max_distance_m", where, 30_000.0, 1.0, 500_000.0),
+            min_distance_m=number(horizon_t, "horizon.min_distance_m", where, None, 0.0, 100_000.0),
+            cache_dir=cache,
+        )
+    except InputError as exc:
+        raise InputError(f"{where}: [horizon]: {exc}") from None

@@ -21,6 +21,7 @@ __all__ = [
     "covered_fraction",
     "covered_warnings",
     "facing_warnings",
+    "frame_warnings",
     "leak_fraction",
     "leak_warnings",
     "north_warnings",
@@ -31,6 +32,8 @@ __all__ = [
 LARGEST_PLAUSIBLE_M = 150.0
 #: Structures smaller than this (largest extent, metres) get a scale warning.
 SMALLEST_PLAUSIBLE_M = 0.3
+#: A target or opening facing further up or down than this (degrees) hints at a wrong up axis (our own choice).
+STEEP_FACING_DEG = 60.0
 
 
 def _unit_hint(largest_m: float, unit: str | None) -> str:
@@ -171,3 +174,67 @@ def covered_warnings(share: float, threshold: float = 0.05) -> list[str]:
         f"target covered: {share:.0%} of its samples have a surface within 1 cm in front of them "
         "(is the target behind a wall surface, or its normals reversed?)"
     ]
+
+
+def _facing_altitude_deg(mesh) -> float | None:
+    """Altitude (degrees) of the area-weighted mean normal of a trimesh in ENU, or None if it has none."""
+    normal = np.sum(np.asarray(mesh.face_normals) * np.asarray(mesh.area_faces)[:, None], axis=0)
+    length = float(np.linalg.norm(normal))
+    if length == 0 or not np.isfinite(length):
+        return None
+    return float(np.degrees(np.arcsin(np.clip(normal[2] / length, -1.0, 1.0))))
+
+
+def frame_warnings(vertices: np.ndarray, faces: np.ndarray, target, opening=None) -> list[str]:
+    """Warnings when the declared up axis looks wrong (site frame, Up = third coordinate).
+
+    ``vertices``/``faces`` are the structure (terrain left out); ``target`` and ``opening`` trimesh meshes.
+    Warned: the target facing, or the opening's plane facing, more than :data:`STEEP_FACING_DEG` up or down;
+    more than half the structure's area below the target's lowest point; the lowest tenth of the structure's
+    height with under a quarter of its area level within 15° (no floor).  Thresholds are our own choices
+    (common practice, no published source): each may be right for an unusual chamber, so they only warn.
+
+    >>> import trimesh
+    >>> box = trimesh.creation.box(extents=(4.0, 2.0, 2.0))
+    >>> wall = trimesh.Trimesh([[2, -1, 0], [2, 1, 0], [2, 1, 1]], [[0, 2, 1]])   # faces west (-x)
+    >>> frame_warnings(box.vertices, box.faces, wall)
+    []
+    >>> flat = trimesh.Trimesh([[0, 0, -1], [1, 0, -1], [0, 1, -1]], [[0, 1, 2]])   # faces up
+    >>> frame_warnings(box.vertices, box.faces, flat)[0][:28]
+    'the target faces 90 deg up: '
+    """
+    out = []
+    hint = "is model.up_axis right?"
+    for name, mesh, signed in (("target", target, True), ("opening", opening, False)):
+        if mesh is None or len(mesh.faces) == 0:
+            continue
+        alt = _facing_altitude_deg(mesh)
+        if alt is None:
+            continue
+        if abs(alt) > STEEP_FACING_DEG:
+            way = ("up" if alt > 0 else "down") if signed else "up or down"
+            what = "faces" if signed else "plane faces"
+            out.append(f"the {name} {what} {abs(alt):.0f} deg {way}: {hint} (fine for a floor, roof or skylight)")
+    v, f = np.asarray(vertices, float), np.asarray(faces)
+    if len(f) == 0:
+        return out
+    tri = v[f]
+    area = 0.5 * np.linalg.norm(np.cross(tri[:, 1] - tri[:, 0], tri[:, 2] - tri[:, 0]), axis=1)
+    total = float(area.sum())
+    if total <= 0:
+        return out
+    centre_up = tri[:, :, 2].mean(axis=1)
+    lowest_target = float(np.min(np.asarray(target.vertices)[:, 2])) if len(target.vertices) else np.nan
+    below = float(area[centre_up < lowest_target - 1e-6].sum()) / total
+    if below > 0.5:
+        out.append(f"{below:.0%} of the structure's area lies below the target: {hint}")
+    z0, z1 = float(v[f].reshape(-1, 3)[:, 2].min()), float(v[f].reshape(-1, 3)[:, 2].max())
+    low = centre_up <= z0 + 0.1 * (z1 - z0)
+    if z1 > z0 and area[low].sum() > 0:
+        normal = np.cross(tri[:, 1] - tri[:, 0], tri[:, 2] - tri[:, 0])
+        with np.errstate(invalid="ignore", divide="ignore"):
+            level = np.abs(normal[:, 2]) / np.linalg.norm(normal, axis=1) > np.cos(np.radians(15.0))
+        share = float(area[low & level].sum() / area[low].sum())
+        if share < 0.25:
+            out.append(f"no level floor: only {share:.0%} of the lowest surfaces are level within 15 deg: {hint}")
+    return out

@@ -46,7 +46,7 @@ from lightpath.errors import InputError
 from lightpath.files import write_atomic
 from lightpath.site.terrain import EARTH_RADIUS_M, TERRESTRIAL_REFRACTION_K
 
-__all__ = ["DEM_FORMAT_VERSION", "DemSkyline", "dem_skyline", "read_dem_point"]
+__all__ = ["DEM_FORMAT_VERSION", "DemSkyline", "dem_skyline", "offset_geographic", "read_dem_point"]
 
 #: Bumped when the skyline's meaning changes, so old cache files are not reused.
 DEM_FORMAT_VERSION = 1
@@ -173,6 +173,24 @@ class _Mosaic:
         return z
 
 
+def offset_geographic(latitude_deg: float, longitude_deg: float, east_m: float, north_m: float) -> tuple[float, float]:
+    """(latitude_deg, longitude_deg) of the point ``east_m``, ``north_m`` metres from a place, along the geodesic
+    (WGS 84, ``pyproj.Geod``; Karney 2013).
+
+    >>> lat, lon = offset_geographic(41.62, -8.05, 0.0, 1000.0)
+    >>> round(lat - 41.62, 5), lon   # 1 km north is about 0.009 deg of latitude
+    (0.009, -8.05)
+    """
+    from pyproj import Geod
+
+    distance = math.hypot(east_m, north_m)
+    if distance == 0.0:
+        return float(latitude_deg), float(longitude_deg)
+    azimuth = math.degrees(math.atan2(east_m, north_m))
+    lon, lat, _ = Geod(ellps="WGS84").fwd(longitude_deg, latitude_deg, azimuth, distance)
+    return float(lat), float(lon)
+
+
 def read_dem_point(files, latitude_deg: float, longitude_deg: float) -> float:
     """The elevation model's height (metres) at one point, by bilinear interpolation; InputError if not covered."""
     rasters = [_Raster(Path(f), float(longitude_deg), float(latitude_deg), 100.0) for f in files]
@@ -235,6 +253,7 @@ def dem_skyline(
     longitude_deg: float,
     *,
     observer_height_m: float = 1.6,
+    eye_elevation_m: float | None = None,
     step_deg: float = 0.5,
     max_distance_m: float = 30_000.0,
     min_distance_m: float | None = None,
@@ -249,6 +268,7 @@ def dem_skyline(
     files : GeoTIFF paths (any CRS pyproj knows); several form a mosaic, the first with a value wins.
     latitude_deg, longitude_deg : the viewpoint, degrees (north, east positive).
     observer_height_m : the eye's height above the model's ground at the viewpoint, metres.
+    eye_elevation_m : the eye's elevation (metres, the model's datum); when given, ``observer_height_m`` is unused.
     step_deg : azimuth spacing, degrees in (0, 30].
     max_distance_m : how far the ground is searched, metres.
     min_distance_m : nearest ground taken, metres (default two cells, so the viewpoint's own cell never
@@ -270,8 +290,8 @@ def dem_skyline(
     if not (math.isfinite(observer_height_m) and -100 <= observer_height_m <= 1000):
         raise InputError(f"observer_height_m: {observer_height_m!r} is outside -100..1000 metres")
     lat, lon = float(latitude_deg), float(longitude_deg)
-    settings = {"lat": lat, "lon": lon, "h": observer_height_m, "step": step_deg, "max": max_distance_m,
-                "min": min_distance_m, "k": refraction_k, "R": earth_radius_m}  # fmt: skip
+    settings = {"lat": lat, "lon": lon, "h": observer_height_m, "eye": eye_elevation_m, "step": step_deg,
+                "max": max_distance_m, "min": min_distance_m, "k": refraction_k, "R": earth_radius_m}  # fmt: skip
     key = _key(paths, settings)
     cache_file = Path(cache_dir) / f"dem-skyline-{key[:24]}.npz" if cache_dir is not None else None
     if cache_file is not None and (cached := _load_cached(cache_file, key)) is not None:
@@ -288,7 +308,7 @@ def dem_skyline(
             f"{names}: the elevation model does not cover the site (latitude {lat:.6f}, longitude {lon:.6f}) "
             "or has nodata there; give rasters that contain the site"
         )
-    eye = float(ground) + float(observer_height_m)
+    eye = float(ground) + float(observer_height_m) if eye_elevation_m is None else float(eye_elevation_m)
     cell = min(r.cell_size_m(lat) * r.decimation for r in rasters if not r.empty)
     near = 2.0 * cell if min_distance_m is None else float(min_distance_m)
     distances = np.arange(near, max_distance_m + 0.25 * cell, 0.5 * cell)

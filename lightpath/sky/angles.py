@@ -88,13 +88,13 @@ def _parse_text(text: str, kind: str, name: str) -> float:
     s = text.strip().replace("''", '"')
     letters = _HEMISPHERES[kind]
     sign, letter = 1.0, None
-    if s and s[-1].upper() in "NSEW":
+    if s and letters and s[-1].upper() in "NSEW":
         letter, s = s[-1].upper(), s[:-1].strip()
-    elif s and s[0].upper() in "NSEW":
+    elif s and letters and s[0].upper() in "NSEW":
         letter, s = s[0].upper(), s[1:].strip()
     if letter is not None:
         if letter not in letters:
-            allowed = "/".join(letters) if letters else "no hemisphere letter"
+            allowed = "/".join(letters)
             raise InputError(f"{name}: hemisphere letter {letter} does not fit a {kind} (accepted: {allowed})")
         sign = letters[letter]
     if s[:1] in "+-" and s:

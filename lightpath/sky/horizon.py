@@ -21,9 +21,9 @@ refraction included (from memory).
 from __future__ import annotations
 
 import csv
-import io
 import math
 import os
+import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -31,8 +31,11 @@ import numpy as np
 
 from lightpath.errors import InputError
 from lightpath.files import write_text_atomic
+from lightpath.sky.angles import parse_angle_deg
 
 __all__ = [
+    "ALTITUDE_HEADERS",
+    "AZIMUTH_HEADERS",
     "EARTH_RADIUS_M",
     "MAX_AZIMUTH_GAP_DEG",
     "HorizonProfile",
@@ -202,23 +205,68 @@ def horizon_dip_deg(height_m: np.ndarray | float, *, refraction: bool = True) ->
     return np.where(h >= 0, dip, np.nan)
 
 
-def read_horizon_csv(path: str | os.PathLike, *, max_gap_deg: float = MAX_AZIMUTH_GAP_DEG) -> HorizonProfile:
-    """Read a skyline profile from a CSV file with header ``azimuth_deg,altitude_deg``.
+#: Header names accepted for the two columns (any case).
+AZIMUTH_HEADERS = ("azimuth_deg", "azimuth", "az")
+ALTITUDE_HEADERS = ("altitude_deg", "altitude", "alt")
+_NORTH_LINE = re.compile(r"#\s*north\s*:\s*(?P<north>[A-Za-z]+)\s*(?:,\s*declination\s+(?P<dec>.+?))?\s*$", re.I)
+_NORTH_FORMS = "'# north: true' or '# north: magnetic, declination 1.5' (east positive, or 1°30' W)"
 
-    Rows may come at any spacing and in any order; azimuths are degrees from true north clockwise (taken
-    modulo 360), altitudes apparent degrees.  Blank lines and lines starting with ``#`` are skipped.
 
-    Raises :class:`~lightpath.errors.InputError` (naming file, line and cell) for: a missing file, a wrong
-    header, a non-numeric or non-finite cell, an altitude beyond ±90°, fewer than 3 distinct azimuths, or a
-    largest azimuth gap (wrapping at 360°) wider than ``max_gap_deg`` (default 30°).
+def _north_line(line: str, path: Path, lineno: int) -> tuple[str, float | None] | None:
+    """A ``# north: ...`` comment → (north, declination_deg or None); None for any other comment."""
+    if not re.match(r"#\s*north\s*:", line, re.I):
+        return None
+    m = _NORTH_LINE.match(line)
+    if m is None or m["north"].lower() not in ("true", "magnetic") or (m["dec"] and m["north"].lower() == "true"):
+        raise InputError(f"{path}: line {lineno}: north line not understood; accepted: {_NORTH_FORMS}")
+    dec = None
+    if m["dec"]:
+        dec = parse_angle_deg(m["dec"], kind="longitude", name=f"{path}: line {lineno}, declination")
+    return m["north"].lower(), dec
+
+
+def _cell_value(cell: str, decimal_comma: bool, where: str) -> float:
+    if decimal_comma and "," in cell and "." not in cell:
+        cell = cell.replace(",", ".")
+    return parse_angle_deg(cell, kind="angle", name=where)
+
+
+def read_horizon_csv(
+    path: str | os.PathLike,
+    *,
+    max_gap_deg: float = MAX_AZIMUTH_GAP_DEG,
+    north: str | None = None,
+    declination_deg: float | None = None,
+) -> HorizonProfile:
+    """Read a skyline profile from a CSV file with an azimuth and an altitude column.
+
+    The header names the columns: ``azimuth_deg``, ``azimuth`` or ``az`` and ``altitude_deg``, ``altitude`` or
+    ``alt`` (any case, any order; other columns are ignored).  Cells are separated by commas or by semicolons
+    (then a decimal comma is accepted too) and hold decimal degrees or degrees-minutes-seconds (``120°30'``,
+    see :mod:`lightpath.sky.angles`).  Rows may come at any spacing and in any order; altitudes are apparent
+    degrees.  Blank lines and lines starting with ``#`` are skipped, except a north line:
+    ``# north: magnetic, declination 1.5`` (east positive; ``1°30' W`` also) says the azimuths are compass
+    bearings, turned here to true azimuths (true = magnetic + declination).  ``north`` (``"true"`` or
+    ``"magnetic"``) and ``declination_deg`` say the same from outside (a scene's ``horizon.north``); the file's
+    own north line must agree with ``north``, and its declination is used before ``declination_deg``.
+
+    Raises :class:`~lightpath.errors.InputError` naming the file, line and column (never the file's text) for:
+    a missing file, a header without both columns, a cell that is not an angle, an altitude beyond ±90°, fewer
+    than 3 distinct azimuths, a largest azimuth gap (wrapping at 360°) wider than ``max_gap_deg`` (default
+    30°), a north line not understood, or magnetic north without a declination.
 
     >>> import tempfile, pathlib
     >>> p = pathlib.Path(tempfile.mkdtemp()) / "h.csv"
     >>> _ = p.write_text("azimuth_deg,altitude_deg\\n0,1\\n120,2\\n240,1.5\\n")
     >>> read_horizon_csv(p, max_gap_deg=120).altitude_at(60.0).item()
     1.5
+    >>> _ = p.write_text("# north: magnetic, declination 2 W\\nAz;Alt\\n2;1,0\\n122;2\\n242°00';1°30'\\n")
+    >>> read_horizon_csv(p, max_gap_deg=120).altitude_at(60.0).item()
+    1.5
     """
     path = Path(path)
+    if north not in (None, "true", "magnetic"):
+        raise InputError(f"north: {north!r} is not one of true, magnetic")
     try:
         text = path.read_text(encoding="utf-8-sig")
     except FileNotFoundError:
@@ -226,34 +274,44 @@ def read_horizon_csv(path: str | os.PathLike, *, max_gap_deg: float = MAX_AZIMUT
     except (OSError, UnicodeDecodeError) as exc:
         raise InputError(f"{path}: horizon file cannot be read ({type(exc).__name__})") from None
     rows = []
-    header_seen = False
-    for lineno, row in enumerate(csv.reader(io.StringIO(text)), start=1):
-        cells = [c.strip() for c in row]
-        if not cells or all(c == "" for c in cells) or cells[0].startswith("#"):
+    columns: tuple[int, int] | None = None
+    width, delimiter, file_north = 0, ",", None
+    for lineno, line in enumerate(text.splitlines(), start=1):
+        stripped = line.strip()
+        if not stripped:
             continue
-        if not header_seen:
-            if [c.lower() for c in cells[:2]] != ["azimuth_deg", "altitude_deg"] or len(cells) != 2:
+        if stripped.startswith("#"):
+            said = _north_line(stripped, path, lineno)
+            if said is not None:
+                file_north = said
+            continue
+        if columns is None:
+            delimiter = ";" if ";" in stripped else ","
+        cells = [c.strip() for c in next(csv.reader([stripped], delimiter=delimiter))]
+        if all(c == "" for c in cells):
+            continue
+        if columns is None:
+            names = [c.lower() for c in cells]
+            found = [next((i for i, n in enumerate(names) if n in options), None)
+                     for options in (AZIMUTH_HEADERS, ALTITUDE_HEADERS)]  # fmt: skip
+            if None in found:
                 raise InputError(
-                    f"{path}: line {lineno}: header must be 'azimuth_deg,altitude_deg', got {','.join(cells)!r}"
+                    f"{path}: line {lineno}: the header needs an azimuth column ({', '.join(AZIMUTH_HEADERS)}) "
+                    f"and an altitude column ({', '.join(ALTITUDE_HEADERS)}), separated by commas or semicolons"
                 )
-            header_seen = True
+            columns, width = (found[0], found[1]), len(cells)
             continue
-        if len(cells) != 2:
-            raise InputError(f"{path}: line {lineno}: expected 2 cells (azimuth_deg,altitude_deg), got {len(cells)}")
-        values = []
-        for name, cell in zip(("azimuth_deg", "altitude_deg"), cells, strict=True):
-            try:
-                value = float(cell)
-            except ValueError:
-                raise InputError(f"{path}: line {lineno}, {name}: {cell!r} is not a number") from None
-            if not math.isfinite(value):
-                raise InputError(f"{path}: line {lineno}, {name}: {cell!r} is not a finite number")
-            values.append(value)
+        if len(cells) != width:
+            raise InputError(f"{path}: line {lineno}: expected {width} cells like the header, got {len(cells)}")
+        values = [
+            _cell_value(cells[col], delimiter == ";", f"{path}: line {lineno}, column {col + 1} ({label})")
+            for col, label in zip(columns, ("azimuth", "altitude"), strict=True)
+        ]
         if abs(values[1]) > 90.0:
-            raise InputError(f"{path}: line {lineno}, altitude_deg: {values[1]:g} is outside -90..90 degrees")
+            raise InputError(f"{path}: line {lineno}, column {columns[1] + 1}: altitude is outside -90..90 degrees")
         rows.append(values)
-    if not header_seen:
-        raise InputError(f"{path}: empty horizon file (expected header 'azimuth_deg,altitude_deg')")
+    if columns is None:
+        raise InputError(f"{path}: empty horizon file (expected a header such as 'azimuth_deg,altitude_deg')")
     data = np.array(rows, dtype=float).reshape(-1, 2)
     az = np.unique(np.mod(data[:, 0], 360.0))
     if az.size < 3:
@@ -265,7 +323,19 @@ def read_horizon_csv(path: str | os.PathLike, *, max_gap_deg: float = MAX_AZIMUT
             f"{path}: azimuth gap of {gaps[k]:.1f} deg after {az[k]:g} deg is wider than {max_gap_deg:g} deg; "
             "add rows covering 0-360"
         )
-    return HorizonProfile(data[:, 0], data[:, 1], source=path.name)
+    said_north, said_declination = file_north if file_north is not None else (None, None)
+    if said_north is not None and north is not None and said_north != north:
+        raise InputError(f"{path}: its north line says {said_north} north but the scene says {north} north")
+    if (said_north or north or "true") == "true":
+        return HorizonProfile(data[:, 0], data[:, 1], source=path.name)
+    turn = said_declination if said_declination is not None else declination_deg
+    if turn is None:
+        raise InputError(
+            f"{path}: azimuths from magnetic north but no declination: add one to the north line "
+            f"({_NORTH_FORMS}) or give the scene's horizon.declination_deg or site.survey_date"
+        )
+    source = f"{path.name} (magnetic bearings + declination {turn:.3f} deg)"
+    return HorizonProfile(data[:, 0] + turn, data[:, 1], source=source)
 
 
 def write_horizon_csv(path: str | os.PathLike, profile: HorizonProfile, *, comment: str | None = None) -> Path:
