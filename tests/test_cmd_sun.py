@@ -204,8 +204,8 @@ def test_delta_t_override(capsys):
 @pytest.mark.parametrize(
     "argv, words",
     [
-        (["--site", "95,0", "--at", "2027-02-03"], "latitude 95"),
-        (["--site", "50,200", "--at", "2027-02-03"], "longitude 200"),
+        (["--site", "95,0", "--at", "2027-02-03"], "latitude: 95"),
+        (["--site", "50,200", "--at", "2027-02-03"], "longitude: 200"),
         (["--site", SITE, "--at", "0 BC-06-21"], "no such year"),
         (["--site", SITE, "--at", "2027-04-31"], "April has 30 days"),
         (["--site", SITE, "--at", "2027-13-01"], "month 13"),

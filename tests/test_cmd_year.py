@@ -100,7 +100,7 @@ def test_bad_input_exit_2(capsys, extra, needle):
 @pytest.mark.parametrize(
     "body,needle",
     [
-        ("azimuth_deg,altitude_deg\n0,1\n10,abc\n", "not a number"),
+        ("azimuth_deg,altitude_deg\n0,1\n10,abc\n", "not an angle"),
         ("azimuth_deg,altitude_deg\n0,1\n10,1\n20,1\n", "gap"),
         ("azimuth_deg,altitude_deg\n" + "".join(f"{a},95\n" for a in range(0, 360, 10)), "altitude"),
     ],

@@ -37,24 +37,29 @@ __all__ = [
 def parse_site(text: str, option: str = "--site") -> tuple[float, float, float]:
     """``"LAT,LON[,ELEV_M]"`` → (latitude_deg, longitude_deg, elevation_m), checked.
 
+    Latitude and longitude are decimal degrees or degrees-minutes-seconds with a hemisphere letter
+    (:mod:`lightpath.sky.angles`).
+
     >>> parse_site("51.2,-1.8,120")
     (51.2, -1.8, 120.0)
+    >>> parse_site("41°37'12 N, 8 03 00 W")
+    (41.62, -8.05, 0.0)
     """
+    from lightpath.sky.angles import parse_angle_deg
+
     parts = [p.strip() for p in str(text).split(",")]
     if len(parts) not in (2, 3):
         raise InputError(f"{option}: {text!r} is not LAT,LON[,ELEV_M] (degrees, degrees east, metres)")
+    lat = parse_angle_deg(parts[0], kind="latitude", name=f"{option}: latitude")
+    lon = parse_angle_deg(parts[1], kind="longitude", name=f"{option}: longitude")
     try:
-        values = [float(p) for p in parts]
+        elev = float(parts[2]) if len(parts) == 3 else 0.0
     except ValueError:
-        raise InputError(f"{option}: {text!r} is not LAT,LON[,ELEV_M] in numbers") from None
-    lat, lon = values[0], values[1]
-    elev = values[2] if len(values) == 3 else 0.0
-    if not all(math.isfinite(v) for v in values):
-        raise InputError(f"{option}: {text!r} has a non-finite number")
-    if not -90.0 <= lat <= 90.0:
-        raise InputError(f"{option}: latitude {lat:g} is outside -90..90 degrees")
-    if not -180.0 <= lon <= 180.0:
-        raise InputError(f"{option}: longitude {lon:g} is outside -180..180 degrees (east positive)")
+        raise InputError(
+            f"{option}: {text!r} is not LAT,LON[,ELEV_M]: the elevation is not a number of metres"
+        ) from None
+    if not math.isfinite(elev):
+        raise InputError(f"{option}: {text!r} has a non-finite elevation")
     if not -500.0 <= elev <= 9000.0:
         raise InputError(f"{option}: elevation {elev:g} m is outside -500..9000 m")
     return lat, lon, elev

@@ -41,6 +41,17 @@ def format_summary(s: dict) -> str:
         f"frame     {s['frame']['axes']}; files: {', '.join(s['frame']['files'])}",
     ]
     lines += ["          file-to-site matrix " + _fmt(row, 6) for row in s["frame"]["file_to_site"][:3]]
+    sv = s.get("survey") or {}
+    if "crs" in sv:
+        lines.append(
+            f"survey    {sv['crs']} easting {sv['easting_m']:.3f} m, northing {sv['northing_m']:.3f} m; "
+            f"grid convergence {sv['convergence_deg']:.4f} deg, scale factor {sv['scale_factor']:.6f} (pyproj)"
+        )
+    if "declination_deg" in sv:
+        lines.append(
+            f"magnetic  declination {sv['declination_deg']:.3f} deg (east positive) from {sv['declination_model']} "
+            f"for {sv['survey_date']} at the site"
+        )
     lines += [
         f"mesh      {mesh['triangles']} triangles, extents E/N/U {_fmt(mesh['extents_m'], 2)} m, "
         f"watertight {'yes' if mesh['watertight'] else 'no'}",
@@ -97,6 +108,7 @@ def run(args: argparse.Namespace) -> int:
     if scene.report.target_area_m2 > 0:
         samples = sample_target(scene.target, count=args.samples, seed=args.seed)
     summary = scene_summary(scene, samples)
+    summary["survey"] = scene.survey
     if samples is not None:
         from lightpath.site.checks import covered_fraction, covered_warnings
 
