@@ -68,6 +68,13 @@ class DemSkyline(NamedTuple):
     label: str  # a short description for reports
 
 
+def _pixel(transform, x, y) -> tuple[np.ndarray, np.ndarray]:
+    """(column, row) of CRS coordinates through the inverse of an affine geotransform (pixel corners integer)."""
+    inv = ~transform
+    x, y = np.asarray(x, float), np.asarray(y, float)
+    return inv.a * x + inv.b * y + inv.c, inv.d * x + inv.e * y + inv.f
+
+
 class _Raster:
     """One file's window around the viewpoint, read once: heights with nan for nodata and a way in."""
 
@@ -95,7 +102,7 @@ class _Raster:
                 np.full(72, lon), np.full(72, lat), np.arange(0.0, 360.0, 5.0), np.full(72, radius_m * 1.02)
             )
             xs, ys = self.to_raster.transform(np.append(ring_lon, lon), np.append(ring_lat, lat))
-            cols, rows = ~src.transform * (np.asarray(xs), np.asarray(ys))
+            cols, rows = _pixel(src.transform, xs, ys)
             c0 = max(int(np.floor(np.nanmin(cols))) - 2, 0)
             r0 = max(int(np.floor(np.nanmin(rows))) - 2, 0)
             c1 = min(int(np.ceil(np.nanmax(cols))) + 2, src.width)
@@ -111,14 +118,16 @@ class _Raster:
             shape = (max(1, window.height // self.decimation), max(1, window.width // self.decimation))
             band = src.read(1, window=window, out_shape=shape, masked=True)
             transform = src.window_transform(window)
-            self.transform = transform * transform.scale(window.width / shape[1], window.height / shape[0])
+            sx, sy = window.width / shape[1], window.height / shape[0]
+            t = transform
+            self.transform = type(t)(t.a * sx, t.b * sy, t.c, t.d * sx, t.e * sy, t.f)  # window cells, decimated
             self.offset = (r0, c0)
         self.heights = np.ma.filled(band.astype(np.float64), np.nan)
 
     def sample(self, lon: np.ndarray, lat: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """Bilinear heights at (lon, lat) degrees: (heights with nan, inside-the-footprint mask, nodata cells)."""
         xs, ys = self.to_raster.transform(lon, lat)
-        cols, rows = ~self.transform * (np.asarray(xs, float), np.asarray(ys, float))
+        cols, rows = _pixel(self.transform, xs, ys)
         fc, fr = cols - 0.5, rows - 0.5  # cell centres at integer + 0.5
         n_r, n_c = self.heights.shape
         inside = np.isfinite(fc) & np.isfinite(fr) & (fc >= 0) & (fr >= 0) & (fc <= n_c - 1) & (fr <= n_r - 1)
