@@ -55,6 +55,21 @@ def light_events(light: YearLight, total_area_m2: float) -> list[LightEvent]:
         uncertain = np.atleast_1d(ut_date_uncertain(t.reshape(n, 3)[:, 2]))
     else:
         uncertain = np.zeros(n, bool)
+    moon = {}
+    if getattr(sky.track, "body", "sun") == "moon":
+        from lightpath.light.moontrack import relative_brightness
+
+        m = sky.track.ungated(t.reshape(n, 3)[:, 2])
+        moon = {
+            "body": "moon",
+            "moon_azimuth_deg": az[:, 2],
+            "moon_altitude_deg": alt[:, 2],
+            "moon_phase_angle_deg": np.asarray(m.phase_angle_deg),
+            "moon_illuminated_fraction": np.asarray(m.illuminated_fraction),
+            "moon_relative_brightness": relative_brightness(m.phase_angle_deg),
+        }
+        az = np.full_like(az, np.nan)
+        alt = np.repeat(np.asarray(m.sun_altitude_deg)[:, None], 3, axis=1)
     out = []
     for i, x in enumerate(intervals):
         own = run_of_day[int(days[i])]
@@ -80,6 +95,7 @@ def light_events(light: YearLight, total_area_m2: float) -> list[LightEvent]:
                 delta_t_s=float(dts[i, 2]),
                 delta_t_sigma_s=float(sig[i, 2]),
                 ut_date_uncertain=bool(uncertain[i]),
+                **{k: (v if isinstance(v, str) else float(v[i])) for k, v in moon.items()},
             )
         )
     return out

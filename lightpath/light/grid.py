@@ -15,6 +15,10 @@ well as today.  The band half-width :data:`DECLINATION_LIMIT_DEG` = 25.5°
 covers the obliquity over ±10,000 years (below 24.3°; Laskar 1986), apparent
 lifting by refraction near the horizon (≤ 0.6°, which moves the apparent
 direction off the geometric circle) and the disc's semidiameter (0.27°).
+For moonlight the band is :data:`MOON_DECLINATION_LIMIT_DEG` = 31°: the Moon's geocentric declination
+reaches ε + i plus the ±0.15° swing of the inclination (29.3° at most over −3000…+3000, when ε ≈ 24.0°),
+its diurnal parallax moves the topocentric declination by up to its horizontal parallax (≤ 1.01°), and its
+semidiameter is ≤ 0.28°: 30.6° at worst.
 
 For an apparent Sun direction these are simply spherical coordinates of the
 direction: they equal the true topocentric hour angle and declination only
@@ -44,10 +48,19 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-__all__ = ["DECLINATION_LIMIT_DEG", "SkyGrid", "enu_from_hadec", "hadec_from_enu", "site_axes"]
+__all__ = [
+    "DECLINATION_LIMIT_DEG",
+    "MOON_DECLINATION_LIMIT_DEG",
+    "SkyGrid",
+    "enu_from_hadec",
+    "hadec_from_enu",
+    "site_axes",
+]
 
 #: Half-width of the declination band the Sun (disc and refraction included) can reach, degrees.
 DECLINATION_LIMIT_DEG = 25.5
+#: Half-width of the band for moonlight, degrees (see the module notes).
+MOON_DECLINATION_LIMIT_DEG = 31.0
 
 
 def site_axes(latitude_deg: float) -> tuple[NDArray, NDArray, NDArray]:

@@ -19,14 +19,21 @@ import numpy as np
 
 from lightpath.errors import InputError
 from lightpath.light.disc import CRITERIA
+from lightpath.light.grid import DECLINATION_LIMIT_DEG, MOON_DECLINATION_LIMIT_DEG
 from lightpath.light.track import Air
 
-__all__ = ["Conditions", "split_settings", "MAX_SAMPLES", "ScanOptions", "WindowOptions"]
+__all__ = ["BODIES", "Conditions", "split_settings", "MAX_SAMPLES", "ScanOptions", "WindowOptions"]
 
 #: Most target samples one window may take.
 MAX_SAMPLES = 1_000_000
 #: Accepted window cell sizes, degrees.
 RESOLUTION_RANGE_DEG = (0.01, 1.0)
+#: The bodies whose light the engine follows, and the declination band each needs of a window (degrees).
+BODIES = {"sun": DECLINATION_LIMIT_DEG, "moon": MOON_DECLINATION_LIMIT_DEG}
+#: Accepted declination bands of a window, degrees.
+BAND_RANGE_DEG = (DECLINATION_LIMIT_DEG, 45.0)
+#: Accepted Sun altitudes below which moonlight counts, degrees (astronomical twilight .. the horizon).
+SUN_BELOW_RANGE_DEG = (-18.0, 0.0)
 
 
 def _whole(value, name: str, low: int, high: int) -> int:
@@ -43,12 +50,27 @@ class WindowOptions:
     seed : seed of the sampling (same seed, same window), ≥ 0.
     resolution_deg : cell size of the window's hour-angle/declination grid, degrees (0.01..1).
     cache_dir : folder for cached windows, or None.
+    declination_limit_deg : half-width of the window's declination band, degrees: the Sun's 25.5° by default;
+        moonlight needs 31° (:meth:`for_body`).
     """
 
     samples: int = 400
     seed: int = 0
     resolution_deg: float = 0.05
     cache_dir: str | Path | None = None
+    declination_limit_deg: float = DECLINATION_LIMIT_DEG
+
+    def for_body(self, body: str) -> WindowOptions:
+        """These options with a declination band wide enough for ``body`` (``"sun"`` or ``"moon"``).
+
+        >>> WindowOptions().for_body("moon").declination_limit_deg
+        31.0
+        """
+        from dataclasses import replace
+
+        if body not in BODIES:
+            raise InputError(f"body: {body!r} is not one of {', '.join(BODIES)}")
+        return replace(self, declination_limit_deg=max(float(self.declination_limit_deg), BODIES[body]))
 
     def check(self) -> WindowOptions:
         """Itself, or :class:`InputError` naming the first setting out of range."""
@@ -58,6 +80,10 @@ class WindowOptions:
         lo, hi = RESOLUTION_RANGE_DEG
         if isinstance(r, bool) or not isinstance(r, int | float | np.floating) or not lo <= float(r) <= hi:
             raise InputError(f"resolution_deg: {r!r} is not a cell size in {lo:g}..{hi:g} degrees")
+        b = self.declination_limit_deg
+        lo, hi = BAND_RANGE_DEG
+        if isinstance(b, bool) or not isinstance(b, int | float | np.floating) or not lo <= float(b) <= hi:
+            raise InputError(f"declination_limit_deg: {b!r} is not a band half-width in {lo:g}..{hi:g} degrees")
         return self
 
 
@@ -71,6 +97,10 @@ class ScanOptions:
     delta_t_s : fixed ΔT in seconds, or None for the model (with its σ).
     calendar : ``auto``, ``julian`` or ``gregorian`` for the dates shown.
     step_min : the sweep's fine sampling step, minutes (:func:`lightpath.light.sweep.find_light`).
+    body : whose light: ``"sun"`` (the default) or ``"moon"`` (:class:`~lightpath.light.moontrack.MoonTrack`).
+    sun_below_deg : moonlight counts only while the Sun's apparent altitude is below this, degrees: −6°, the end
+        of civil twilight (common practice, no published source).
+    min_illuminated_fraction : moonlight counts only while the Moon's illuminated fraction is at least this (0..1).
     """
 
     criterion: str = "first-gleam"
@@ -80,6 +110,9 @@ class ScanOptions:
     delta_t_s: float | None = None
     calendar: str = "auto"
     step_min: float = 1.0
+    body: str = "sun"
+    sun_below_deg: float = -6.0
+    min_illuminated_fraction: float = 0.0
 
     def check(self) -> ScanOptions:
         """Itself, or :class:`InputError` for an unknown name or a number out of range."""
@@ -99,6 +132,14 @@ class ScanOptions:
             raise InputError("delta_t_s: not a number of seconds in -1000000..1000000")
         if not (isinstance(self.step_min, int | float) and 0.05 <= float(self.step_min) <= 5.0):
             raise InputError("step_min: not a number of minutes in 0.05..5")
+        if self.body not in BODIES:
+            raise InputError(f"body: {self.body!r} is not one of {', '.join(BODIES)}")
+        lo, hi = SUN_BELOW_RANGE_DEG
+        if not (isinstance(self.sun_below_deg, int | float) and lo <= float(self.sun_below_deg) <= hi):
+            raise InputError(f"sun_below_deg: {self.sun_below_deg!r} is not an altitude in {lo:g}..{hi:g} degrees")
+        f = self.min_illuminated_fraction
+        if not (isinstance(f, int | float) and 0.0 <= float(f) <= 1.0):
+            raise InputError(f"min_illuminated_fraction: {f!r} is not a fraction in 0..1")
         return self
 
 
@@ -141,4 +182,5 @@ def split_settings(
         raise TypeError(f"unknown setting {unknown[0]!r}; settings are {', '.join(sorted(w_names | s_names))}")
     window = replace(window, **{k: v for k, v in settings.items() if k in w_names})
     scan = replace(scan, **{k: v for k, v in settings.items() if k in s_names})
-    return window.check(), scan.check()
+    window, scan = window.check(), scan.check()
+    return window.for_body(scan.body), scan

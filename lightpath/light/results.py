@@ -18,7 +18,7 @@ __all__ = ["DivisionLight", "LightEvent", "LightMap", "ScanResult", "ScanSetting
 
 @dataclass(frozen=True)
 class LightEvent:
-    """One interval during which sunlight reaches the target (by the chosen criterion).
+    """One interval during which sunlight (or moonlight, ``body`` "moon") reaches the target (by the criterion).
 
     ``division`` is the division of the year that the event's light run belongs to
     (:func:`lightpath.light.runs.assign_runs`) and ``offset_days`` the event's day minus that division's day.
@@ -43,6 +43,13 @@ class LightEvent:
     delta_t_s: float
     delta_t_sigma_s: float
     ut_date_uncertain: bool = False  # ΔT's σ (±2σ) could move the UT calendar date of this event
+    # moonlight (``body`` "moon"): sun_azimuth_deg is then nan and sun_altitude_deg the Sun's (below the gate)
+    body: str = "sun"  # whose light: "sun" or "moon"
+    moon_azimuth_deg: float | None = None  # the Moon at the peak, from true north clockwise
+    moon_altitude_deg: float | None = None  # apparent (refracted)
+    moon_phase_angle_deg: float | None = None  # Sun–Moon–Earth at the peak, 0 at full Moon
+    moon_illuminated_fraction: float | None = None  # 0..1 (Meeus 1998 eq. 48.1)
+    moon_relative_brightness: float | None = None  # against the full Moon (Krisciunas & Schaefer 1991 eq. 20)
 
 
 @dataclass(frozen=True)

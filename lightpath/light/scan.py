@@ -27,7 +27,6 @@ import numpy as np
 from lightpath.errors import InputError
 from lightpath.light.disc import SEMIDIAMETER_DEG, lit_area
 from lightpath.light.events import division_lights, light_events
-from lightpath.light.grid import DECLINATION_LIMIT_DEG
 from lightpath.light.options import Conditions, ScanOptions, WindowOptions, split_settings
 from lightpath.light.results import LightMap, ScanResult, ScanSettings, YearScan
 from lightpath.light.window import SkyWindow, compute_window
@@ -143,6 +142,7 @@ def prepare_window(
         scene.observer.latitude_deg,
         opening=scene.opening,
         resolution_deg=o.resolution_deg,
+        declination_limit_deg=o.declination_limit_deg,
         cache_dir=o.cache_dir,
         content_key=scene.content_hash or None,
         progress=progress,
@@ -153,7 +153,7 @@ def prepare_window(
         where = "through the opening" if scene.opening is not None else "anywhere"
         raise InputError(
             f"{scene.path}: the target sees no sky {where} in the directions the Sun can take at latitude "
-            f"{scene.observer.latitude_deg:g}° (declination ±{DECLINATION_LIMIT_DEG:g}°, above the horizon); "
+            f"{scene.observer.latitude_deg:g}° (declination ±{o.declination_limit_deg:g}°, above the horizon); "
             "check the target, the opening and the mesh's normals"
         )
     return window

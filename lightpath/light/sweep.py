@@ -70,12 +70,14 @@ def sun_enu(sun: Callable, jd_tt: ArrayLike):
     return pos, enu_from_azalt(pos.azimuth_deg, pos.altitude_deg).reshape(-1, 3)
 
 
-def union_map(window: SkyWindow, limb_darkening_u: float | None = None) -> NDArray[np.bool_]:
-    """(n_h, n_d) bool: cells of the whole grid where some sample sees part of the disc."""
-    key = ("union", limb_darkening_u)
+def union_map(
+    window: SkyWindow, limb_darkening_u: float | None = None, semidiameter_deg: float = SEMIDIAMETER_DEG
+) -> NDArray[np.bool_]:
+    """(n_h, n_d) bool: cells of the whole grid where some sample sees part of the disc (radius in degrees)."""
+    key = ("union", limb_darkening_u, float(semidiameter_deg))
     if key in window.derived:
         return window.derived[key]
-    frac = disc_fractions(window, SEMIDIAMETER_DEG, limb_darkening_u)
+    frac = disc_fractions(window, semidiameter_deg, limb_darkening_u)
     g = window.grid
     union = np.zeros((g.n_h, g.n_d), bool)
     s, i, j = np.nonzero(frac > 0)
@@ -87,12 +89,14 @@ def union_map(window: SkyWindow, limb_darkening_u: float | None = None) -> NDArr
     return union
 
 
-def _in_union(window: SkyWindow, directions: NDArray, rotation, limb_darkening_u) -> NDArray[np.bool_]:
+def _in_union(
+    window: SkyWindow, directions: NDArray, rotation, limb_darkening_u, semidiameter_deg: float = SEMIDIAMETER_DEG
+) -> NDArray[np.bool_]:
     """(M,) bool: the direction's cell, or one within 2 cells, is in the union of the windows."""
     g = window.grid
-    key = ("union+2", limb_darkening_u)
+    key = ("union+2", limb_darkening_u, semidiameter_deg)
     if key not in window.derived:
-        u = union_map(window, limb_darkening_u).astype(np.uint8)
+        u = union_map(window, limb_darkening_u, semidiameter_deg).astype(np.uint8)
         u = maximum_filter1d(u, size=5, axis=0, mode="wrap")
         window.derived[key] = maximum_filter1d(u, size=5, axis=1) > 0
     grown = window.derived[key]
@@ -157,6 +161,9 @@ def find_light(
     rotation: ArrayLike | None = None,
     horizon_offset_deg: float = 0.0,
     limb_darkening_u: float | None = None,
+    semidiameter_deg: float = SEMIDIAMETER_DEG,
+    screen_step_d: float = 0.25,
+    screen_slop_deg: float = 0.1,
 ) -> list[LightInterval]:
     """Every interval of light on the target between two instants (Julian dates TT).
 
@@ -168,23 +175,29 @@ def find_light(
     criterion : ``first-gleam``, ``half-disc`` or ``full-disc``.
     coarse_min, step_min : coarse and fine sampling steps, minutes.
     tolerance_s : bisection tolerance for starts and ends, seconds.
-    rotation, horizon_offset_deg, limb_darkening_u : as in :func:`lightpath.light.disc.disc_fraction`.
+    rotation, horizon_offset_deg, limb_darkening_u, semidiameter_deg : as in
+        :func:`lightpath.light.disc.disc_fraction` (the disc's radius: the Sun's mean by default).
+    screen_step_d, screen_slop_deg : the declination screen's step (days; 6 hours for the Sun, whose declination
+        moves < 0.4° a day) and the declination change it allows within half a step (degrees; the Moon's
+        track, :class:`lightpath.light.moontrack.MoonTrack`, gives an hour and 0.5°).
 
     Returns
     -------
     list of :class:`LightInterval` in time order.
     """
     lookup = {"rotation": rotation, "horizon_offset_deg": horizon_offset_deg, "limb_darkening_u": limb_darkening_u}
+    if semidiameter_deg != SEMIDIAMETER_DEG:  # the Sun's calls stay as they were
+        lookup["semidiameter_deg"] = semidiameter_deg
     meets(0.0, criterion)  # validates the name
     g = window.grid
-    union = union_map(window, limb_darkening_u)
+    union = union_map(window, limb_darkening_u, semidiameter_deg)
     if not union.any():
         return []
-    # 1. days: declination test every 6 hours
+    # 1. days: declination test every 6 hours (the Sun)
     rows = union.any(axis=0)
-    slop = 0.1 + REFRACTION_SLOP_DEG + _rotation_angle_deg(rotation)
+    slop = screen_slop_deg + REFRACTION_SLOP_DEG + _rotation_angle_deg(rotation)
     rows = maximum_filter1d(rows.astype(np.uint8), size=2 * int(math.ceil(slop / g.resolution_deg)) + 1) > 0
-    quarter = 0.25
+    quarter = float(screen_step_d)
     tq = np.arange(jd_tt_start, jd_tt_end + quarter, quarter)
     pos_q = sun(tq)
     jq = np.floor((np.asarray(pos_q.declination_deg) + g.declination_limit_deg) / g.resolution_deg).astype(int)
@@ -200,7 +213,7 @@ def find_light(
     look = dirs_c if rotation is None else dirs_c @ np.asarray(rotation, dtype=np.float64)
     h, d = hadec_from_enu(g.latitude_deg, look)
     fh, fd = g.fractional_index(h, d)
-    wkey = ("widened", limb_darkening_u, float(coarse_min))
+    wkey = ("widened", limb_darkening_u, float(coarse_min), semidiameter_deg)
     if wkey not in window.derived:
         grown = _widen_h(union, int(math.ceil(coarse_min * H_RATE_DEG_PER_MIN / g.resolution_deg)) + 2)
         grown = maximum_filter1d(grown.astype(np.uint8), size=2 * int(math.ceil(0.3 / g.resolution_deg)) + 1, axis=1)
@@ -220,7 +233,8 @@ def find_light(
     tf = np.concatenate(segments)
     _, dirs_f = sun_enu(sun, tf)
     area_f, weighted_f, top_f = np.zeros(len(tf)), np.zeros(len(tf)), np.zeros(len(tf))
-    possible = _in_union(window, dirs_f, rotation, limb_darkening_u)  # one look-up per instant, not per sample
+    # one look-up per instant, not per sample
+    possible = _in_union(window, dirs_f, rotation, limb_darkening_u, semidiameter_deg)
     if possible.any():
         area_f[possible], weighted_f[possible], top_f[possible] = lit_areas(
             window, dirs_f[possible], criterion, with_max=True, **lookup

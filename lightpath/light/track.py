@@ -35,6 +35,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from lightpath.light.disc import SEMIDIAMETER_DEG
 from lightpath.light.grid import enu_from_hadec, hadec_from_enu
 from lightpath.sky.observer import Observer
 from lightpath.sky.refraction import apparent_altitude
@@ -122,7 +123,19 @@ class SunTrack:
     jd_tt_start, jd_tt_end : the span, Julian dates TT (a day more is kept beyond each end).
     source : Sun position source (``auto``, ``jpl``, ``vsop87``).
     delta_t_s : a fixed ΔT (seconds), or None for the model with its σ.
+
+    The class attributes say what the sweep needs to know of the body (:func:`lightpath.light.year.year_light`
+    hands them to :func:`lightpath.light.sweep.find_light`): ``node_d`` (node spacing, days),
+    ``disc_semidiameter_deg`` (the disc's radius used for the whole span), ``screen_step_d`` and
+    ``screen_slop_deg`` (the declination screen's step and the declination change it allows within half a step).
+    :class:`lightpath.light.moontrack.MoonTrack` is the Moon's.
     """
+
+    body = "sun"
+    node_d = NODE_D
+    disc_semidiameter_deg = SEMIDIAMETER_DEG
+    screen_step_d = 0.25  # the Sun's declination moves < 0.4° a day: 0.05° in 3 hours
+    screen_slop_deg = 0.1
 
     def __init__(
         self,
@@ -132,16 +145,14 @@ class SunTrack:
         source: str = "auto",
         delta_t_s: float | None = None,
     ) -> None:
-        from lightpath.sky.sun import sun_position
-
         self.observer = observer
         self.source_option = source
         self.delta_t_option_s = delta_t_s
         # a day of nodes beyond each end: searches look a little past the span they are given
         self.t0 = math.floor(float(jd_tt_start) * 24.0) / 24.0 - 1.0
-        n = int(math.ceil((float(jd_tt_end) + 1.0 - self.t0) / NODE_D)) + 2
-        self.jd_tt = self.t0 + np.arange(n) * NODE_D
-        pos = sun_position(self.jd_tt, observer, source=source, delta_t_s=delta_t_s)
+        n = int(math.ceil((float(jd_tt_end) + 1.0 - self.t0) / self.node_d)) + 2
+        self.jd_tt = self.t0 + np.arange(n) * self.node_d
+        pos = self.direct(self.jd_tt)
         geo = enu_from_azalt(pos.azimuth_deg, pos.altitude_geometric_deg)
         h, d = hadec_from_enu(observer.latitude_deg, geo)
         self.hour_angle_deg = np.degrees(np.unwrap(np.radians(h)))
@@ -150,6 +161,10 @@ class SunTrack:
         self.delta_t_s = np.broadcast_to(np.asarray(pos.delta_t_s, dtype=float), self.jd_tt.shape).copy()
         self.delta_t_sigma_s = np.broadcast_to(np.asarray(pos.delta_t_sigma_s, dtype=float), self.jd_tt.shape).copy()
         self.source = pos.source
+        self._keep(pos)
+
+    def _keep(self, pos) -> None:
+        """Keep more of the nodes' positions (a subclass's hook; the Sun needs nothing more)."""
 
     @property
     def span(self) -> tuple[float, float]:
@@ -157,7 +172,7 @@ class SunTrack:
         return float(self.jd_tt[0]), float(self.jd_tt[-1])
 
     def _weights(self, jd_tt: NDArray) -> tuple[NDArray, NDArray]:
-        x = (jd_tt - self.t0) / NODE_D
+        x = (jd_tt - self.t0) / self.node_d
         i = np.clip(np.floor(x).astype(np.int64), 0, len(self.jd_tt) - 2)
         return i, x - i
 
@@ -170,7 +185,7 @@ class SunTrack:
         flat = t.reshape(-1)
         lo, hi = self.span
         if flat.size and (np.nanmin(flat) < lo - 1e-9 or np.nanmax(flat) > hi + 1e-9):
-            raise ValueError(f"instants outside the Sun track's span {lo:.4f}..{hi:.4f} (JD TT)")
+            raise ValueError(f"instants outside the {self.body} track's span {lo:.4f}..{hi:.4f} (JD TT)")
         i, w = self._weights(flat)
         h = self._lerp(self.hour_angle_deg, i, w)
         d = self._lerp(self.declination_deg, i, w)

@@ -63,7 +63,7 @@ from scipy.ndimage import maximum_filter
 
 from lightpath.errors import InputError
 from lightpath.files import write_atomic
-from lightpath.light.grid import SkyGrid, hadec_from_enu
+from lightpath.light.grid import DECLINATION_LIMIT_DEG, SkyGrid, hadec_from_enu
 from lightpath.light.rays import RayCaster, origin_offset_m
 
 if TYPE_CHECKING:  # trimesh is needed only to build windows, not to read them (keeps workers light)
@@ -292,6 +292,7 @@ def compute_window(
     *,
     opening: trimesh.Trimesh | None = None,
     resolution_deg: float = 0.05,
+    declination_limit_deg: float = DECLINATION_LIMIT_DEG,
     coarse_deg: float = 0.2,
     search_deg: float = 1.0,
     backend: str = "auto",
@@ -310,6 +311,9 @@ def compute_window(
     latitude_deg : site latitude, degrees north (fixes the celestial pole in the site frame).
     opening : the aperture's mesh, or None (then a ``search_deg`` lattice finds the sky).
     resolution_deg : cell size of the stored mask, degrees (0.05° ≈ 12 s of the Sun's motion).
+    declination_limit_deg : half-width of the grid's declination band, degrees (the Sun's 25.5° by default;
+        :data:`~lightpath.light.grid.MOON_DECLINATION_LIMIT_DEG` for moonlight); part of the cache key when
+        not the default.
     coarse_deg : first lattice step inside each box, degrees (see the module notes).
     search_deg : lattice step of the whole-band search without an opening, degrees.
     backend : ray backend, ``"auto"``, ``"embree"`` or ``"numpy"``.
@@ -327,7 +331,7 @@ def compute_window(
     area = np.asarray(area_m2, dtype=np.float64).reshape(-1)
     if not (len(pts) == len(nrm) == len(area)) or len(pts) == 0:
         raise ValueError("points, normals and areas must be non-empty and of one length")
-    grid = SkyGrid.make(latitude_deg, resolution_deg)
+    grid = SkyGrid.make(latitude_deg, resolution_deg, declination_limit_deg)
     params = {
         "res": grid.resolution_deg,
         "coarse": float(coarse_deg),
@@ -335,6 +339,8 @@ def compute_window(
         "opening": opening is not None,
         "floor": ALTITUDE_FLOOR_DEG,
     }
+    if float(declination_limit_deg) != DECLINATION_LIMIT_DEG:  # the Sun's windows keep their keys
+        params["band"] = float(declination_limit_deg)
     key = window_key(content_key or mesh_key(mesh, opening), pts, nrm, area, latitude_deg, **params)
     if cache_dir is not None:
         cached = load_window(Path(cache_dir) / f"window-{key[:24]}.npz", key)

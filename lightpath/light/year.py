@@ -7,9 +7,10 @@ December solstice of ``Y`` — and the sweep runs over their local apparent days
 December solstice) is whole.  Then:
 
 1. :class:`YearSky` — the Sun track of the span (:class:`~lightpath.light.track.SunTrack`, one batched
-   call) and the candidate divisions (those of ``Y − 1``, ``Y`` and ``Y + 1``) with their local
-   apparent days; it depends on the site, the year and the :class:`~lightpath.light.options.ScanOptions`
-   only, so studies compute it once per year and reuse it for every realisation;
+   call; or the Moon's, :class:`~lightpath.light.moontrack.MoonTrack`, when ``options.body`` is ``"moon"``)
+   and the candidate divisions (those of ``Y − 1``, ``Y`` and ``Y + 1``) with their local apparent days; it
+   depends on the site, the year and the :class:`~lightpath.light.options.ScanOptions` only, so studies
+   compute it once per year and reuse it for every realisation;
 2. :func:`year_light` — one realisation (:class:`~lightpath.light.options.Conditions`: a rotation of the
    structure, the air, an anomalous refraction, a raised horizon, a ΔT error): every interval of light
    (:func:`lightpath.light.sweep.find_light`), its local apparent day, the light runs and the division
@@ -28,7 +29,8 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from lightpath.light.options import Conditions, ScanOptions
+from lightpath.errors import InputError
+from lightpath.light.options import BODIES, Conditions, ScanOptions
 from lightpath.light.runs import DivisionRuns, assign_runs, division_runs, local_apparent_day_number, runs_of_days
 from lightpath.light.sweep import LightInterval, find_light
 from lightpath.light.track import SunTrack
@@ -116,8 +118,14 @@ def year_sky(observer: Observer, year: int, options: ScanOptions) -> YearSky:
         last_day = int(np.rint(end - dt1 / _DAY_S + lon_d)) + MARGIN_DAYS
         t0 = first_day - 0.5 - lon_d + dt0 / _DAY_S - 0.02
         t1 = last_day + 0.5 - lon_d + dt1 / _DAY_S + 0.02
-        track = SunTrack(observer, t0, t1, options.source, options.delta_t_s)
-        direct = track.direct(jd_tt)
+        if options.body == "moon":
+            from lightpath.light.moontrack import MoonTrack
+
+            track = MoonTrack(observer, t0, t1, options.source, options.delta_t_s, options.sun_below_deg,
+                              options.min_illuminated_fraction)  # fmt: skip
+        else:
+            track = SunTrack(observer, t0, t1, options.source, options.delta_t_s)
+        direct = SunTrack.direct(track, jd_tt)  # the divisions' instants: the Sun's local apparent time
     for w in caught:
         text = f"{w.category.__name__}: {w.message}"
         if text not in notes:
@@ -170,13 +178,22 @@ def year_light(window: SkyWindow, sky: YearSky, conditions: Conditions | None = 
     """Every interval of light and the light runs of ``sky.year`` in one realisation (see the module notes)."""
     c = conditions if conditions is not None else Conditions()
     o = sky.options
-    sun = sky.track.bound(c.air)
+    track = sky.track
+    band = window.grid.declination_limit_deg
+    if band < BODIES[track.body] - 1e-9:
+        raise InputError(
+            f"declination_limit_deg: the window's band ±{band:g}° is narrower than the {track.body}'s "
+            f"±{BODIES[track.body]:g}°; make the window with WindowOptions().for_body({track.body!r})"
+        )
+    sun = track.bound(c.air)
     lon_d = sky.observer.longitude_deg / 360.0
     # local mean midnights widened by 22 minutes (the equation of time is at most 17)
     t0 = sky.first_day - 0.5 - lon_d + float(sky.track.delta_t_s[0]) / _DAY_S - 0.015
     t1 = sky.last_day + 0.5 - lon_d + float(sky.track.delta_t_s[-1]) / _DAY_S + 0.015
     intervals = find_light(window, sun, t0, t1, o.criterion, step_min=o.step_min, rotation=c.rotation,
-                           horizon_offset_deg=c.horizon_offset_deg, limb_darkening_u=c.limb_darkening_u)  # fmt: skip
+                           horizon_offset_deg=c.horizon_offset_deg, limb_darkening_u=c.limb_darkening_u,
+                           semidiameter_deg=track.disc_semidiameter_deg, screen_step_d=track.screen_step_d,
+                           screen_slop_deg=track.screen_slop_deg)  # fmt: skip
     if intervals:
         peaks = sun(np.array([x.peak_jd_tt for x in intervals]))
         days = np.atleast_1d(
