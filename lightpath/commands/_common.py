@@ -182,6 +182,12 @@ def add_engine_options(
     parser.add_argument("--delta-t", type=float, default=None, metavar="S", help="a fixed ΔT in seconds")
     parser.add_argument("--calendar", choices=("auto", "julian", "gregorian"), default=o.calendar,
                         help="calendar of the dates shown (default: Julian before 1582-10-15)")  # fmt: skip
+    parser.add_argument("--body", choices=("sun", "moon"), default=o.body,
+                        help=f"whose light reaches the target (default {o.body})")  # fmt: skip
+    parser.add_argument("--sun-below", type=float, default=o.sun_below_deg, metavar="DEG",
+                        help=f"moonlight only with the Sun below DEG -18..0 (default {o.sun_below_deg:g})")  # fmt: skip
+    parser.add_argument("--min-fraction", type=float, default=o.min_illuminated_fraction, metavar="F",
+                        help="moonlight only while the Moon is at least F illuminated, 0..1 (default 0)")  # fmt: skip
     cache = parser.add_mutually_exclusive_group()
     cache.add_argument("--cache", metavar="DIR", default=None, help=f"window cache folder (default {DEFAULT_CACHE})")
     cache.add_argument("--no-cache", action="store_true", help="do not read or write a window cache")
@@ -202,13 +208,17 @@ def engine_options(args: argparse.Namespace):
     if args.delta_t is not None and not (math.isfinite(args.delta_t) and abs(args.delta_t) <= 1e6):
         raise InputError("--delta-t: not a number of seconds in -1000000..1000000")
     flags = {"samples": "--samples", "seed": "--seed", "resolution_deg": "--resolution", "parts": "--parts",
-             "delta_t_s": "--delta-t"}  # fmt: skip
+             "delta_t_s": "--delta-t", "body": "--body", "sun_below_deg": "--sun-below",
+             "min_illuminated_fraction": "--min-fraction"}  # fmt: skip
     try:
         w = WindowOptions(int(args.samples), int(args.seed), float(args.resolution), cache_dir).check()
-        o = ScanOptions(criterion=args.criterion, source=args.source, delta_t_s=args.delta_t, calendar=args.calendar)
+        o = ScanOptions(criterion=args.criterion, source=args.source, delta_t_s=args.delta_t, calendar=args.calendar,
+                        body=args.body, sun_below_deg=float(args.sun_below),
+                        min_illuminated_fraction=float(args.min_fraction))  # fmt: skip
         if hasattr(args, "parts"):
             o = replace(o, scheme=args.scheme, parts=int(args.parts))
         o.check()
+        w = w.for_body(o.body)
     except InputError as exc:
         name, _, rest = str(exc).partition(":")
         raise InputError(f"{flags.get(name, name)}:{rest}") from None

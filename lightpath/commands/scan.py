@@ -99,18 +99,24 @@ def _print_table(result, timezone: str | None) -> None:
         print(f"note: {note}")
     for y in result.years:
         print()
-        print(f"Year {year_label(y.year)} (astronomical {y.year}), dates in the {y.calendar} calendar; Sun: {y.source}")
+        print(f"Year {year_label(y.year)} (astronomical {y.year}), dates in the {y.calendar} calendar; {s.body.title()}: {y.source}")
         if not y.events:
             print("  no light on the target this year")
         else:
-            print("  date (LAD)    day in the year           LAT start–end  min    area m²  frac   azim°   alt°")
+            moon = s.body == "moon"
+            head = "Moon azim°  alt°  phase°  lit  bright" if moon else "azim°   alt°"
+            print(f"  date (LAD)    day in the year           LAT start–end  min    area m²  frac   {head}")
             for e in y.events:
                 row = event_row(e, y.year, timezone)
+                if moon:  # the Moon at the peak: phase angle, illuminated fraction, brightness against full
+                    seen = (f"{e.moon_azimuth_deg:6.2f}  {e.moon_altitude_deg:5.2f}  {e.moon_phase_angle_deg:6.1f}  "
+                            f"{e.moon_illuminated_fraction:4.2f}  {e.moon_relative_brightness:5.3f}")  # fmt: skip
+                else:
+                    seen = f"{e.sun_azimuth_deg:6.2f}  {e.sun_altitude_deg:5.2f}"
                 print(
                     f"  {row['date']:<12}  {division_offset_label(e.division, e.offset_days):<24}  "
                     f"{row['start_local_apparent']}–{row['end_local_apparent']}  {e.duration_min:5.1f}  "
-                    f"{e.peak_area_m2:8.4f}  {e.peak_fraction:4.2f}  {e.sun_azimuth_deg:6.2f}  "
-                    f"{e.sun_altitude_deg:5.2f}"
+                    f"{e.peak_area_m2:8.4f}  {e.peak_fraction:4.2f}  {seen}"
                 )
         print(f"  light runs per division ({s.samples} samples, {s.resolution_deg:g}° cells): date, days, first – last")
         for d in y.divisions:

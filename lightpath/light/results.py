@@ -111,6 +111,9 @@ class ScanSettings:
     delta_t_s: float | None = None  # a fixed ΔT, or None for the model
     step_min: float = 1.0
     day_convention: str = "local apparent day"
+    body: str = "sun"  # whose light: "sun" or "moon"
+    sun_below_deg: float | None = None  # moonlight: the Sun's altitude gate, degrees (None for sunlight)
+    min_illuminated_fraction: float | None = None  # moonlight: the least illuminated fraction (None for sunlight)
 
 
 @dataclass(frozen=True)

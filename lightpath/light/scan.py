@@ -275,6 +275,9 @@ def scan_settings(window: SkyWindow, observer: Observer, options: ScanOptions, s
         options.source,
         options.delta_t_s,
         float(options.step_min),
+        body=options.body,
+        sun_below_deg=float(options.sun_below_deg) if options.body == "moon" else None,
+        min_illuminated_fraction=float(options.min_illuminated_fraction) if options.body == "moon" else None,
     )
 
 

@@ -299,8 +299,12 @@ def settings_line(settings) -> str:
     '400 target samples, 0.05° window cells, cr'
     """
     dt = "model" if settings.delta_t_s is None else f"{settings.delta_t_s:g} s"
+    body = f"Sun {settings.source}"
+    if getattr(settings, "body", "sun") == "moon":
+        body = (f"moonlight (source {settings.source}) with the Sun below {settings.sun_below_deg:g}° and the Moon "
+                f"at least {settings.min_illuminated_fraction:g} illuminated")  # fmt: skip
     return (
         f"{settings.samples} target samples, {settings.resolution_deg:g}° window cells, criterion "
-        f"{settings.criterion}, {settings.parts} divisions ({settings.scheme}), Sun {settings.source}, ΔT {dt}; "
+        f"{settings.criterion}, {settings.parts} divisions ({settings.scheme}), {body}, ΔT {dt}; "
         f"days are {settings.day_convention}s"
     )
