@@ -99,7 +99,8 @@ def _print_table(result, timezone: str | None) -> None:
         print(f"note: {note}")
     for y in result.years:
         print()
-        print(f"Year {year_label(y.year)} (astronomical {y.year}), dates in the {y.calendar} calendar; {s.body.title()}: {y.source}")
+        label = f"Year {year_label(y.year)} (astronomical {y.year}), dates in the {y.calendar} calendar"
+        print(f"{label}; {s.body.title()}: {y.source}")
         if not y.events:
             print("  no light on the target this year")
         else:
