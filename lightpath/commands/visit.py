@@ -104,7 +104,8 @@ def run(args: argparse.Namespace) -> int:
     if scene.observer.timezone is None:
         plan.notes.append("The scene gives no time zone: clock times are UTC (set site.timezone or --timezone).")
     if args.ics:
-        write_calendar(args.ics, visit_entries(plan), name=f"Sunlight on the target: {plan.scene}")
+        light = "Moonlight" if plan.settings.body == "moon" else "Sunlight"
+        write_calendar(args.ics, visit_entries(plan), name=f"{light} on the target: {plan.scene}")
     if args.json:
         document = visit_document(plan)
         document["ics"] = args.ics

@@ -107,6 +107,11 @@ def visit_text(plan: VisitPlan) -> str:
     return "\n".join(lines)
 
 
+def _light_word(plan) -> str:
+    """The word for the light a plan followed: Moonlight or Sunlight."""
+    return "Moonlight" if getattr(plan.settings, "body", "sun") == "moon" else "Sunlight"
+
+
 def visit_entries(plan: VisitPlan) -> list[CalendarEntry]:
     """One calendar entry per event: from the earliest start to the latest end, description with the details."""
     zone = time_zone(plan.timezone or "UTC")
@@ -127,7 +132,7 @@ def visit_entries(plan: VisitPlan) -> list[CalendarEntry]:
         )
         entries.append(
             CalendarEntry(
-                summary=f"Sunlight on the target: {plan.scene}",
+                summary=f"{_light_word(plan)} on the target: {plan.scene}",
                 uid_key=f"{plan.scene}|{utc_datetime(visit.start_jd_ut).strftime('%Y-%m-%dT%H:%MZ')}",
                 start_utc=start,
                 end_utc=end,
