@@ -175,3 +175,25 @@ def test_window_options_for_the_moon():
         ScanOptions(body="venus").check()
     with pytest.raises(InputError, match="sun_below_deg"):
         ScanOptions(body="moon", sun_below_deg=5.0).check()
+
+
+def test_scan_command_with_body_moon(capsys, tmp_path):
+    """``lightpath scan DEMO --body moon``: moonlight events with the Moon's numbers in JSON and CSV; bad gate → 2."""
+    import csv
+    import json
+
+    from lightpath.cli import main
+    from lightpath.scene import demo_scene_path
+
+    scene = str(demo_scene_path("quillfield"))
+    out_csv = tmp_path / "moon.csv"
+    args = ["scan", scene, "--year", "2025", "--body", "moon", "--samples", "40", "--no-cache", "--quiet"]
+    assert main([*args, "--json", "--csv", str(out_csv)]) == 0
+    data = json.loads(capsys.readouterr().out)
+    assert data["settings"]["body"] == "moon" and data["settings"]["sun_below_deg"] == -6.0
+    events = data["years"][0]["events"]
+    assert events and all(e["body"] == "moon" and e["sun_altitude_deg"] < -6.0 for e in events)
+    rows = list(csv.DictReader(line for line in out_csv.read_text().splitlines() if not line.startswith("#")))
+    assert len(rows) == len(events) and float(rows[0]["moon_illuminated_fraction"]) >= 0.0
+    assert main([*args, "--sun-below", "3"]) == 2
+    assert "--sun-below" in capsys.readouterr().err

@@ -30,6 +30,7 @@ from lightpath.files import write_text_atomic
 from lightpath.light.scan import parse_years, scan_scene
 from lightpath.present.tables import (
     EVENT_COLUMNS,
+    MOON_EVENT_COLUMNS,
     division_label,
     division_offset_label,
     division_row,
@@ -88,7 +89,8 @@ def result_json(result, timezone: str | None = None) -> dict:
 
 def _csv_text(result, timezone: str | None) -> str:
     rows = [event_row(e, y.year, timezone) for y in result.years for e in y.events]
-    return f"# lightpath scan of {result.scene}: {settings_line(result.settings)}\n" + rows_to_csv(rows, EVENT_COLUMNS)
+    columns = EVENT_COLUMNS + (MOON_EVENT_COLUMNS if result.settings.body == "moon" else ())
+    return f"# lightpath scan of {result.scene}: {settings_line(result.settings)}\n" + rows_to_csv(rows, columns)
 
 
 def _print_table(result, timezone: str | None) -> None:

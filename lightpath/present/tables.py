@@ -33,6 +33,7 @@ __all__ = [
     "DIVISION_COLUMNS",
     "EVENT_COLUMNS",
     "EVENT_HTML_COLUMNS",
+    "MOON_EVENT_COLUMNS",
     "clock_hm",
     "day_date",
     "division_label",
@@ -71,6 +72,15 @@ EVENT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("delta_t_s", "ΔT (s)"),
     ("delta_t_sigma_s", "ΔT σ (s)"),
     ("ut_date_uncertain", "UT date uncertain"),
+)
+
+#: Columns added to moonlight events (``body`` "moon"): the Moon at the peak, its phase and brightness.
+MOON_EVENT_COLUMNS = (
+    ("moon_azimuth_deg", "Moon azimuth at peak (°)"),
+    ("moon_altitude_deg", "Moon apparent altitude at peak (°)"),
+    ("moon_phase_angle_deg", "Moon phase angle (°, 0 = full)"),
+    ("moon_illuminated_fraction", "Moon illuminated fraction"),
+    ("moon_relative_brightness", "Brightness against the full Moon (Krisciunas & Schaefer 1991)"),
 )
 
 #: The event columns shown in the HTML report (the CSV and JSON files carry them all).
@@ -203,7 +213,16 @@ def event_row(event: LightEvent, year: int, timezone: str | None = None) -> dict
         "delta_t_s": _round(event.delta_t_s, 0),
         "delta_t_sigma_s": _round(event.delta_t_sigma_s, 0),
         "ut_date_uncertain": bool(event.ut_date_uncertain),
+        **_moon_cells(event),
     }
+
+
+def _moon_cells(event: LightEvent) -> dict[str, Any]:
+    """The :data:`MOON_EVENT_COLUMNS` of a moonlight event (nothing for sunlight)."""
+    if getattr(event, "body", "sun") != "moon":
+        return {}
+    digits = {"moon_illuminated_fraction": 3, "moon_relative_brightness": 4}
+    return {key: _round(getattr(event, key), digits.get(key, 2)) for key, _ in MOON_EVENT_COLUMNS}
 
 
 def division_row(division: DivisionLight, year: int) -> dict[str, Any]:
