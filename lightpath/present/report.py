@@ -35,6 +35,7 @@ from lightpath.present.tables import (
     DIVISION_COLUMNS,
     EVENT_COLUMNS,
     EVENT_HTML_COLUMNS,
+    MOON_EVENT_COLUMNS,
     division_rows,
     event_rows,
     rows_to_csv,
@@ -169,8 +170,10 @@ def report_html(
 ) -> str:
     """The report as one HTML document (a string); every value is escaped."""
     years = ", ".join(year_label(y.year) for y in scan.years) or "no year"
-    title = title or f"Sunlight on the target: {scan.scene}"
+    moon = getattr(scan.settings, "body", "sun") == "moon"
+    title = title or f"{'Moonlight' if moon else 'Sunlight'} on the target: {scan.scene}"
     events, divisions = event_rows(scan), division_rows(scan)
+    moon_columns = MOON_EVENT_COLUMNS if moon else ()
     parts = [
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',
@@ -192,7 +195,7 @@ def report_html(
         '<h2 id="events">Light events</h2>',
         f"<p>{len(events)} event(s). Dates are the day at the site in local apparent solar time; "
         "years in astronomical numbering (0 = 1 BC, −3199 = 3200 BC), calendar named on each row.</p>",
-        rows_to_html(events, EVENT_HTML_COLUMNS, table_id="event-table"),
+        rows_to_html(events, EVENT_HTML_COLUMNS + moon_columns, table_id="event-table"),
         '<h2 id="divisions">Light around the divisions of the year</h2>',
         rows_to_html(divisions, DIVISION_COLUMNS, table_id="division-table"),
     ]
@@ -247,7 +250,8 @@ def write_report(
         )
         step(1)
     header = f"# {scan.scene}: {settings_line(scan.settings)}\n"  # a comment line: pandas reads it with comment="#"
-    written["events.csv"] = write_text_atomic(out / "events.csv", header + rows_to_csv(event_rows(scan), EVENT_COLUMNS))
+    columns = EVENT_COLUMNS + (MOON_EVENT_COLUMNS if getattr(scan.settings, "body", "sun") == "moon" else ())
+    written["events.csv"] = write_text_atomic(out / "events.csv", header + rows_to_csv(event_rows(scan), columns))
     step(1)
     written["divisions.csv"] = write_text_atomic(
         out / "divisions.csv", header + rows_to_csv(division_rows(scan), DIVISION_COLUMNS)

@@ -262,7 +262,9 @@ def write_scene_report(
     )
     if plan is not None:
         paths["visit.ics"] = write_calendar(
-            Path(out_dir) / "visit.ics", visit_entries(plan), name=f"Sunlight on the target: {main.scene}"
+            Path(out_dir) / "visit.ics",
+            visit_entries(plan),
+            name=f"{'Moonlight' if main.settings.body == 'moon' else 'Sunlight'} on the target: {main.scene}",
         )
     lap("write")
     return ReportOutput(paths, main, data.drift, plan, seconds, accuracy_warnings)

@@ -26,7 +26,7 @@ import datetime as _dt
 import os
 import time
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 import numpy as np
@@ -223,7 +223,9 @@ def report_data(
     main = scan([int(year)], with_light_map=True)
     year_scan = main.years[0]
     track = year_sky(scene.observer, int(year), o).track
-    paths = sun_paths(track, year_scan, scene.observer.longitude_deg)
+    # the Sun's paths on the division days, also in a moonlight report (the Moon's track is gated by the Sun)
+    sun_track = track if o.body == "sun" else year_sky(scene.observer, int(year), replace(o, body="sun")).track
+    paths = sun_paths(sun_track, year_scan, scene.observer.longitude_deg)
     patch = None
     if year_scan.events:
         best = max(year_scan.events, key=lambda e: (e.peak_area_m2, -e.start_jd_ut))
