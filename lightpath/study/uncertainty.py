@@ -392,4 +392,3 @@ def nominal_draw(year: int, temperature_c: float = 10.0, pressure_mbar: float = 
     """
     z = np.zeros(len(_NORMALS))
     return _draw_from_normals(index, z, Tolerances.zero(), year, None, None, temperature_c, pressure_mbar)
-
