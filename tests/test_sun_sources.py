@@ -5,6 +5,7 @@ import pytest
 
 from lightpath.errors import InputError
 from lightpath.sky import sun as sun_module
+from lightpath.sky.apparent import apparent_columns
 from lightpath.sky.observer import Observer
 from lightpath.sky.sources import choose_source, long_term_span_jd_tt
 from lightpath.sky.sun import azalt_from_enu, enu_from_azalt, geocentric_sun, sun_position
@@ -84,7 +85,7 @@ def test_dense_grid_interpolation_matches_direct(source, monkeypatch):
     jd = 2451545.0 + np.arange(0.0, 2.0, 1.0 / 1440.0)
     obs = Observer(45.0, 7.0, refraction=None)
     fast = sun_position(jd, obs, source=source, delta_t_s=64.0)
-    monkeypatch.setattr(sun_module, "_core_at", lambda src, t: sun_module._core(src, t))
+    monkeypatch.setattr(sun_module, "sun_apparent_columns", lambda src, t: apparent_columns(src, t))
     slow = sun_position(jd, obs, source=source, delta_t_s=64.0)
     d_alt = np.abs(fast.altitude_deg - slow.altitude_deg) * 3600
     d_az = np.abs(fast.azimuth_deg - slow.azimuth_deg) * np.cos(np.radians(slow.altitude_deg)) * 3600

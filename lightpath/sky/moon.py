@@ -56,6 +56,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from lightpath.errors import InputError
 from lightpath.sky import elp, jpl, orientation, sun
+from lightpath.sky.apparent import angles_of_date, apparent_columns, delta_t_with_sigma, topocentric_columns
 from lightpath.sky.deltat import timescale
 from lightpath.sky.nodes import lagrange_on_grid
 from lightpath.sky.observer import Observer
@@ -175,7 +176,7 @@ def _sun_source_for(src: MoonSource, jd: NDArray):
 
 def _core_at(src, jd_tt: NDArray) -> NDArray:
     """(…, 5): true-of-date apparent vector (au), equation of the origins, true obliquity (the Sun's core)."""
-    return lagrange_on_grid(lambda u: sun._core(src, u), np.asarray(jd_tt, dtype=float), _NODE_STEP_DAYS)
+    return lagrange_on_grid(lambda u: apparent_columns(src, u), np.asarray(jd_tt, dtype=float), _NODE_STEP_DAYS)
 
 
 @dataclass(frozen=True)
@@ -214,8 +215,8 @@ def geocentric_moon(jd_tt: ArrayLike, source: str = "auto", ephemeris_path: str 
     jd = np.asarray(jd_tt, dtype=float)
     src = choose_moon_source(jd, source, ephemeris_path)
     cols = _core_at(src, jd)
-    ra, dec, dist, lon, lat = sun._geocentric_angles(cols)
-    phase = _phase_angle_deg(cols, sun._core_at(_sun_source_for(src, jd), jd))
+    ra, dec, dist, lon, lat = angles_of_date(cols)
+    phase = _phase_angle_deg(cols, sun.sun_apparent_columns(_sun_source_for(src, jd), jd))
     return GeocentricMoon(
         jd_tt=jd,
         ecliptic_longitude_deg=lon * _R2D,
@@ -292,13 +293,13 @@ def moon_position(
     jd = np.asarray(jd_tt, dtype=float)
     src = choose_moon_source(jd, source, ephemeris_path)
     moon_cols = _core_at(src, jd).reshape(-1, 5)
-    sun_cols = sun._core_at(_sun_source_for(src, jd), jd).reshape(-1, 5)
-    dt_s, dt_sigma = sun._delta_t(jd, delta_t_s)
+    sun_cols = sun.sun_apparent_columns(_sun_source_for(src, jd), jd).reshape(-1, 5)
+    dt_s, dt_sigma = delta_t_with_sigma(jd, delta_t_s)
     jd_ut = (jd - dt_s / _DAY_S).reshape(-1)
-    topo = functools.partial(sun._topocentric, observer=observer)
+    topo = functools.partial(topocentric_columns, observer=observer)
     m = split_map(topo, moon_cols, jd_ut)
     s = split_map(topo, sun_cols, jd_ut)
-    lat_ecl = sun._geocentric_angles(moon_cols)[4]
+    lat_ecl = angles_of_date(moon_cols)[4]
     phase = _phase_angle_deg(moon_cols, sun_cols)
 
     def shaped(a: NDArray) -> NDArray:
