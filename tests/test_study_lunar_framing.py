@@ -66,3 +66,30 @@ def test_window_band_must_cover_the_moon():
     with pytest.raises(InputError, match="for_body"):
         lunar_framing(window, SITE, YEAR, axis, draws=0, null_draws=0)
     assert np.isfinite(southern_moonrise_az())
+
+
+def test_frame_command_tests_a_lunar_claim(tmp_path, capsys):
+    """``frame --body moon`` on a [build] slit shrine aimed 0.3° south of the 2025 southern-extreme moonrise."""
+    import json
+
+    from lightpath.cli import main
+
+    scene = tmp_path / "shrine.toml"
+    scene.write_text(
+        f"[site]\nlatitude_deg = {SITE.latitude_deg}\nlongitude_deg = {SITE.longitude_deg}\n\n"
+        f'[build]\nkind = "slit_shrine"\nbearing_deg = {round(southern_moonrise_az() + 0.3, 3)}\nnorth = "true"\n'
+        "depth_m = 4.0\nwidth_m = 2.5\nheight_m = 2.2\nrock_m = 1.5\n"
+        "slit = {width_m = 0.06, height_m = 0.3, sill_m = 0.5}\nimage = [-0.05, 0.05, 0.45, 0.6]\n",
+        encoding="utf-8",
+    )
+    argv = [str(scene), "--epoch", str(YEAR), "--body", "moon", "--samples", "16", "--draws", "2",
+            "--null-draws", "3", "--tolerance", "opening_azimuth_deg=0.1", "--workers", "1", "--quiet"]  # fmt: skip
+    assert main(["frame", *argv, "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["kind"] == "major" and doc["direction"] == "south" and doc["side"] == "moonrise"
+    assert doc["nominal_closeness_deg"] <= 0.5 and len(doc["closeness_deg"]) == 2
+    assert main(["frame", *argv]) == 0
+    text = capsys.readouterr().out
+    assert "major standstill's southern moonrise" in text and "P(framed)" in text and "moonlight" in text
+    assert main(["frame", *argv, "--division", "june_solstice"]) == 2
+    assert "--standstill" in capsys.readouterr().err

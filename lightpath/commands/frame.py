@@ -49,6 +49,8 @@ __all__ = [
 ]
 
 NAME = "frame"
+#: Lunar claims ``--standstill`` accepts (with ``--body moon``): the standstill's kind and the extreme's direction.
+STANDSTILLS = ("major-south", "major-north", "minor-south", "minor-north")
 HELP = "framing test: probability that light reaches the target near each division, against a null model"
 
 
@@ -75,6 +77,12 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--within", type=int, default=3, metavar="DAYS",
                         help="framed = light on a day within ±DAYS of the division (default 3)")  # fmt: skip
     parser.add_argument("--null-draws", type=int, default=200, metavar="N", help="null orientations (default 200)")
+    parser.add_argument("--standstill", default="major-south", choices=STANDSTILLS, metavar="KIND-DIRECTION",
+                        help="with --body moon: the lunar claim tested, " + ", ".join(STANDSTILLS)
+                        + " (default major-south)")  # fmt: skip
+    parser.add_argument("--closeness", type=float, default=0.5, metavar="DEG",
+                        help="with --body moon: framed = moonlight within DEG of the extreme's declination "
+                        "(default 0.5)")  # fmt: skip
 
 
 def _tolerances(scene, overrides: list[str]):
@@ -217,6 +225,8 @@ def run(args: argparse.Namespace) -> int:
     from lightpath.study.uncertainty import parse_epoch
 
     year, sigma = parse_epoch(args.epoch)
+    if args.body == "moon":
+        return run_lunar(args, year)
     spread_given = any(mark in args.epoch for mark in ("±", "+/-", "+-"))
     if args.null_draws < 0:
         raise InputError(f"--null-draws: {args.null_draws} must be 0 or more")
@@ -242,4 +252,56 @@ def run(args: argparse.Namespace) -> int:
         if client is not None:
             client.close()
     emit(args, result, format_text(result, backend))
+    return 0
+
+
+def format_lunar_text(result, scene_label: str, settings) -> list[str]:
+    """The human-readable report of a :class:`~lightpath.study.lunar_framing.LunarFraming`."""
+    from lightpath.present.tables import ut_label
+
+    lo, hi = result.probability_interval
+    near = result.nominal_closeness_deg
+    lines = [
+        f"lunar framing test  {scene_label}",
+        f"claim         the opening frames the {result.kind} standstill's {result.direction}ern {result.side}",
+        f"extreme       declination {result.extreme_declination_deg:+.3f}° at {ut_label(result.extreme_jd_tt)} TT; "
+        f"moonlight searched ±{result.span_days:g} days",
+        f"framed        moonlight at a declination within {result.within_deg:g}° of the extreme",
+        f"opening       axis at azimuth {result.facing_azimuth_deg:.2f}°",
+        "",
+        f"surveyed      closest moonlight {'none' if near != near else f'{near:.3f}° from the extreme'}",
+        f"P(framed)     {result.probability:.3f} (95% interval {lo:.3f}-{hi:.3f}) over {len(result.closeness_deg)} "
+        "survey draws",
+        f"null model    {result.null_model}, azimuths {result.null_arc_deg[0]:.2f}°..{result.null_arc_deg[1]:.2f}°: "
+        f"rate {result.null_rate:.3f} over {len(result.null_closeness_deg)} orientations, p {result.p_value:.4f}",
+        "",
+        "p: (k+1)/(n+1) for a random orientation bringing moonlight at least as close as the surveyed one; "
+        "ΔT's σ is not drawn (the extreme's declination does not depend on it)",
+    ]
+    if settings is not None:
+        lines.append(f"settings: {settings_line(settings)}")
+    return lines
+
+
+def run_lunar(args: argparse.Namespace, year: int) -> int:
+    """``frame --body moon``: the framing test for a lunar standstill claim (:mod:`lightpath.study.lunar_framing`)."""
+    from lightpath.light.scan import scan_settings
+    from lightpath.study.lunar_framing import lunar_framing
+
+    if args.division != "all":
+        raise InputError("--division: divisions of the year are tested with --body sun; with --body moon use "
+                         "--standstill " + "|".join(STANDSTILLS))  # fmt: skip
+    if not 0.0 < args.closeness <= 10.0:
+        raise InputError(f"--closeness: {args.closeness:g} must be in (0, 10] degrees")
+    if args.null_draws < 0:
+        raise InputError(f"--null-draws: {args.null_draws} must be 0 or more")
+    scene, light, axis, _, tol = open_study(args, None)
+    kind, direction = args.standstill.split("-")
+    with progress_bar("lunar framing", 1, quiet=args.quiet or args.json) as advance:
+        result = lunar_framing(light.window, light.observer, year, axis, kind=kind, direction=direction,
+                               tolerances=tol, draws=args.draws, null_draws=args.null_draws, seed=args.seed,
+                               within_deg=args.closeness, options=light.options)  # fmt: skip
+        advance(1)
+    settings = scan_settings(light.window, light.observer, light.options, args.seed)
+    emit(args, result, format_lunar_text(result, scene.label, settings))
     return 0
