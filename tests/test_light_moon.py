@@ -197,3 +197,30 @@ def test_scan_command_with_body_moon(capsys, tmp_path):
     assert len(rows) == len(events) and float(rows[0]["moon_illuminated_fraction"]) >= 0.0
     assert main([*args, "--sun-below", "3"]) == 2
     assert "--sun-below" in capsys.readouterr().err
+
+
+def test_a_slit_aimed_at_the_southern_extreme_sees_moonlight_only_in_its_standstill_season():
+    """A slit aimed at the 2025 southern-extreme moonrise, scanned 2017–2034, year by year through the one path.
+
+    The Moon's monthly southern extreme swings between −(ε + i) and −(ε − i) over the 18.6-year nodal cycle
+    (Thom 1971; Ruggles 1999, ch. 3, from memory): the slit (its sill and lintel pass a few degrees of altitude,
+    about 2° of declination at this azimuth) sees the Moon only in the months whose southern extreme comes within
+    2° of the major standstill's (−28.73° in March 2025, :func:`lightpath.sky.standstills.standstill_seasons`,
+    JPL DE421): one run of years around 2025, shorter than a third of the cycle, none at the minor standstill of 2034.
+    """
+    from lightpath.light.events import light_events
+    from lightpath.sky.moon import geocentric_moon
+    from lightpath.sky.standstills import standstill_seasons
+
+    _, _, window = slit(MOONRISE_AZ)
+    season = next(s for s in standstill_seasons(2020, 2030) if (s.kind, s.direction) == ("major", "south"))
+    lit_years, peaks = set(), []
+    for year in range(2017, 2035):
+        events = light_events(year_light(window, year_sky(SITE, year, ScanOptions(body="moon"))), window.total_area_m2)
+        lit_years.update({year} if events else set())
+        peaks += [e.peak_jd_ut for e in events]
+    assert 2025 in lit_years and 2034 not in lit_years
+    assert lit_years == set(range(min(lit_years), max(lit_years) + 1))  # one season, no stray years
+    assert (max(peaks) - min(peaks)) / 365.25 < 18.6 / 3
+    declination = geocentric_moon(np.array(peaks)).declination_deg
+    assert np.all(np.abs(declination - season.extreme_declination_deg) < 2.0)
