@@ -148,7 +148,9 @@ def light_patch(window, track, event: LightEvent, criterion: str, target: Any = 
     jd_ut = event.start_jd_ut + span * (np.arange(frames) + 0.5) / frames
     lo, hi = track.span
     pos = track.positions(np.clip(jd_ut + event.delta_t_s / _DAY_S, lo, hi))
-    lit = meets(disc_fraction(window, pos.directions(), edge=CRITERION_EDGE[criterion]), criterion)
+    semidiameter = track.disc_semidiameter_deg  # the Sun's or the Moon's disc, as the sweep used
+    lit = meets(disc_fraction(window, pos.directions(), edge=CRITERION_EDGE[criterion], semidiameter_deg=semidiameter),
+                criterion)  # fmt: skip
     try:
         triangles = np.asarray(target.triangles, dtype=float) if target is not None else None
     except AttributeError:
