@@ -178,8 +178,8 @@ def add_engine_options(
     parser.add_argument("--resolution", type=float, default=w.resolution_deg, metavar="DEG",
                         help=f"sky window cell, 0.01..1 degrees (default {w.resolution_deg:g})")  # fmt: skip
     parser.add_argument("--source", choices=("auto", "jpl", "vsop87"), default=o.source,
-                        help="ephemeris: JPL DE421 (1900-2050); beyond, VSOP87 for the Sun and the long-term lunar theory for "
-                        "the Moon (default auto: DE421 where it covers, else the long-term theory)")  # fmt: skip
+                        help="ephemeris: JPL DE421 (1900-2050); beyond, VSOP87 for the Sun and the long-term "
+                        "lunar theory for the Moon (default auto: DE421 where it covers)")  # fmt: skip
     parser.add_argument("--delta-t", type=float, default=None, metavar="S", help="a fixed ΔT in seconds")
     parser.add_argument("--calendar", choices=("auto", "julian", "gregorian"), default=o.calendar,
                         help="calendar of the dates shown (default: Julian before 1582-10-15)")  # fmt: skip
