@@ -111,12 +111,14 @@ class RayCaster:
         self.backend = backend
         self._empty = len(mesh.faces) == 0
         self._hit: Callable[[NDArray, NDArray], NDArray] | None = None
+        self._intersector = None  # trimesh's Embree intersector (nearest hits), None on the numpy backend
         if self._empty:
             return
         if backend == "embree":
             from trimesh.ray.ray_pyembree import RayMeshIntersector
 
-            scene = RayMeshIntersector(mesh, scale_to_box=True)._scene
+            self._intersector = RayMeshIntersector(mesh, scale_to_box=True)
+            scene = self._intersector._scene
 
             def hit(o: NDArray, d: NDArray) -> NDArray:
                 return scene.run(o, d) >= 0
@@ -143,13 +145,34 @@ class RayCaster:
             out[start:stop] = ~self._hit(o[start:stop], d[start:stop])
         return out
 
+    def first_hit(self, origins: ArrayLike, directions: ArrayLike) -> tuple[NDArray, NDArray]:
+        """The nearest hit of each ray: face index (N,) (−1 where nothing is hit) and point (N, 3) (nan there).
 
-def _any_hit_moller_trumbore(triangles: NDArray, origins: NDArray, directions: NDArray) -> NDArray[np.bool_]:
-    """Any-hit test of every ray against every triangle (float64; O(rays × triangles), chunked)."""
+        Embree through trimesh's intersector (scaled to a ~100-unit box), or Möller & Trumbore in float64.
+        """
+        o = np.asarray(origins, dtype=np.float64).reshape(-1, 3)
+        d = np.asarray(directions, dtype=np.float64).reshape(-1, 3)
+        if len(o) != len(d):
+            raise ValueError(f"origins ({len(o)}) and directions ({len(d)}) differ in length")
+        face = np.full(len(o), -1, dtype=np.int64)
+        point = np.full((len(o), 3), np.nan)
+        if self._empty or len(o) == 0:
+            return face, point
+        if self._intersector is None:  # the numpy backend (trimesh's own needs rtree)
+            return _nearest_moller_trumbore(np.asarray(self.mesh.triangles, dtype=np.float64), o, d)
+        for start in range(0, len(o), CHUNK_RAYS):
+            stop = start + CHUNK_RAYS
+            loc, ray, tri = self._intersector.intersects_location(o[start:stop], d[start:stop], multiple_hits=False)
+            face[start + ray] = tri
+            point[start + ray] = loc
+        return face, point
+
+
+def _moller_trumbore_chunks(triangles: NDArray, origins: NDArray, directions: NDArray):
+    """Yield (slice, t) with t (n, T) the distance along each ray to each triangle, inf where missed (float64)."""
     v0 = triangles[:, 0]
     e1 = triangles[:, 1] - v0
     e2 = triangles[:, 2] - v0
-    hit = np.zeros(len(origins), dtype=bool)
     step = max(1, 2_000_000 // max(len(triangles), 1))
     for a in range(0, len(origins), step):
         o = origins[a : a + step, None, :]
@@ -165,8 +188,29 @@ def _any_hit_moller_trumbore(triangles: NDArray, origins: NDArray, directions: N
             v = np.einsum("ijk,ijk->ij", d, q) * inv
             t = np.einsum("ijk,jk->ij", q, e2) * inv
         ok = (np.abs(det) > 1e-15) & (u >= 0) & (v >= 0) & (u + v <= 1) & (t > 0)
-        hit[a : a + step] = ok.any(axis=1)
+        yield slice(a, a + step), np.where(ok, t, np.inf)
+
+
+def _any_hit_moller_trumbore(triangles: NDArray, origins: NDArray, directions: NDArray) -> NDArray[np.bool_]:
+    """Any-hit test of every ray against every triangle (float64; O(rays × triangles), chunked)."""
+    hit = np.zeros(len(origins), dtype=bool)
+    for rows, t in _moller_trumbore_chunks(triangles, origins, directions):
+        hit[rows] = np.isfinite(t).any(axis=1)
     return hit
+
+
+def _nearest_moller_trumbore(triangles: NDArray, origins: NDArray, directions: NDArray) -> tuple[NDArray, NDArray]:
+    """Nearest hit of every ray: face index (−1: none) and point (nan: none), float64, chunked."""
+    face = np.full(len(origins), -1, dtype=np.int64)
+    point = np.full((len(origins), 3), np.nan)
+    for rows, t in _moller_trumbore_chunks(triangles, origins, directions):
+        k = np.argmin(t, axis=1)
+        tk = t[np.arange(len(k)), k]
+        hit = np.isfinite(tk)
+        idx = np.arange(rows.start, rows.start + len(k))[hit]
+        face[idx] = k[hit]
+        point[idx] = origins[idx] + tk[hit, None] * directions[idx]
+    return face, point
 
 
 def escapes(
