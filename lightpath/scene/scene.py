@@ -75,6 +75,7 @@ class Scene:
     warnings: list[str] = field(default_factory=list)
     content_hash: str = ""
     survey: dict = field(default_factory=dict)  # what was computed from the survey (convergence, declination)
+    parts: dict = field(default_factory=dict)  # part name (the model's groups, else objects) → faces of ``mesh``
 
 
 def demo_scene_path(name: str) -> Path:
@@ -417,7 +418,19 @@ def load_scene(path: str | os.PathLike, *, cache_dir: str | os.PathLike | None =
         warnings=warnings,
         content_hash=hash_geometry(mesh, target, opening),
         survey=survey.info(),
+        parts=_mesh_parts(model, keep),
     )
+
+
+def _mesh_parts(model: LabeledMesh, keep: np.ndarray) -> dict[str, np.ndarray]:
+    """Part name → indices of ``Scene.mesh`` faces: the model's groups (else objects), blocking faces only."""
+    kind = next((k for k in ("group", "object") if model.names.get(k)), None)
+    if kind is None:
+        return {}
+    where = np.full(len(model.faces), -1, dtype=np.int64)
+    where[keep] = np.arange(int(keep.sum()))
+    out = {name: where[faces][where[faces] >= 0] for name, faces in sorted(model.names[kind].items())}
+    return {name: faces for name, faces in out.items() if faces.size}
 
 
 def _dem_horizon(horizon_t: dict, where: str, base: Path, survey: SiteSurvey, opening, cache_dir):
