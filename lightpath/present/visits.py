@@ -134,8 +134,8 @@ def visit_entries(plan: VisitPlan) -> list[CalendarEntry]:
             CalendarEntry(
                 summary=f"{_light_word(plan)} on the target: {plan.scene}",
                 uid_key=f"{plan.scene}|{utc_datetime(visit.start_jd_ut).strftime('%Y-%m-%dT%H:%MZ')}",
-                start_utc=start,
-                end_utc=end,
+                start=start,
+                end=end,
                 description=description,
                 location=f"{plan.scene} ({plan.latitude_deg:.5f}, {plan.longitude_deg:.5f})",
                 latitude_deg=plan.latitude_deg,
