@@ -13,16 +13,20 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from lightpath.sky.tables import Tabular
+
 __all__ = ["DivisionLight", "LightEvent", "LightMap", "ScanResult", "ScanSettings", "YearScan"]
 
 
 @dataclass(frozen=True)
-class LightEvent:
+class LightEvent(Tabular):
     """One interval during which sunlight (or moonlight, ``body`` "moon") reaches the target (by the criterion).
 
     ``division`` is the division of the year that the event's light run belongs to
     (:func:`lightpath.light.runs.assign_runs`) and ``offset_days`` the event's day minus that division's day.
     """
+
+    _day_columns = ("day", "division_day")
 
     day: int  # local apparent day at the site (Julian day number)
     calendar: str  # "julian" or "gregorian": the calendar the day is shown in
@@ -53,8 +57,10 @@ class LightEvent:
 
 
 @dataclass(frozen=True)
-class DivisionLight:
+class DivisionLight(Tabular):
     """The light runs around one division of the year (days are local apparent day numbers)."""
+
+    _day_columns = ("day", "first_day", "last_day")
 
     scheme: str
     index: int
@@ -84,8 +90,10 @@ class LightMap:
 
 
 @dataclass(frozen=True)
-class YearScan:
+class YearScan(Tabular):
     """Every light event in one year and the per-division summary."""
+
+    _tables = ("events", "divisions")
 
     year: int  # astronomical numbering
     calendar: str
@@ -97,7 +105,7 @@ class YearScan:
 
 
 @dataclass(frozen=True)
-class ScanSettings:
+class ScanSettings(Tabular):
     """How a scan was run, reported beside its results."""
 
     criterion: str  # "first-gleam", "half-disc" or "full-disc"
@@ -117,11 +125,17 @@ class ScanSettings:
 
 
 @dataclass(frozen=True)
-class ScanResult:
+class ScanResult(Tabular):
     """A scan over one or more years for one scene."""
+
+    _tables = ("events", "divisions")
 
     scene: str
     settings: ScanSettings
     target_area_m2: float
     years: list[YearScan]
     notes: list[str] = field(default_factory=list)
+
+    def _table_rows(self, table):
+        """Every year's rows, each with its ``year`` (astronomical numbering)."""
+        return [({"year": y.year}, row) for y in self.years for row in getattr(y, table)]

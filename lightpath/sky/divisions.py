@@ -66,6 +66,7 @@ from lightpath.sky.seasons import (
     solar_longitude_instant,
     year_span_source,
 )
+from lightpath.sky.tables import Tabular
 
 __all__ = ["ANCHORS", "MAX_PARTS", "SCHEMES", "Division", "day_parts", "division_name", "divisions"]
 
@@ -91,7 +92,7 @@ _BISECT_TOL_DAYS = 1e-6
 
 
 @dataclass(frozen=True)
-class Division:
+class Division(Tabular):
     """One division of the year.
 
     Attributes

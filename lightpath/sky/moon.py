@@ -61,6 +61,7 @@ from lightpath.sky.deltat import timescale
 from lightpath.sky.nodes import lagrange_on_grid
 from lightpath.sky.observer import Observer
 from lightpath.sky.sources import choose_source
+from lightpath.sky.tables import Tabular
 from lightpath.threads import split_map
 
 __all__ = [
@@ -231,7 +232,7 @@ def geocentric_moon(jd_tt: ArrayLike, source: str = "auto", ephemeris_path: str 
 
 
 @dataclass(frozen=True)
-class MoonPosition:
+class MoonPosition(Tabular):
     """The Moon seen from a site; every array has the shape of ``jd_tt``.
 
     Times: jd_tt, jd_ut (UT1), delta_t_s, delta_t_sigma_s (seconds; σ = 0 when ΔT was given).
@@ -245,6 +246,8 @@ class MoonPosition:
     during ΔT's σ). distance_km (geocentric), distance_au (the same in au), equation_of_time_min and
     local_apparent_time_h (the Sun's: local apparent solar time, 0..24 h), source.
     """
+
+    _columnar = True
 
     jd_tt: NDArray
     jd_ut: NDArray

@@ -65,6 +65,7 @@ from lightpath.sky.apparent import angles_of_date, apparent_columns, delta_t_wit
 from lightpath.sky.nodes import chebyshev_blocks, lagrange_on_grid
 from lightpath.sky.observer import Observer
 from lightpath.sky.sources import SunSource, choose_source, warn_if_unverified
+from lightpath.sky.tables import Tabular
 from lightpath.sky.vectors import azalt_from_enu, enu_from_azalt
 from lightpath.threads import split_map
 
@@ -89,13 +90,15 @@ _R2D = 180.0 / np.pi
 
 
 @dataclass(frozen=True)
-class GeocentricSun:
+class GeocentricSun(Tabular):
     """Geocentric apparent Sun, true equator/ecliptic and equinox of date; arrays shaped like ``jd_tt``.
 
     ecliptic_longitude_deg, ecliptic_latitude_deg : apparent, ecliptic of date, true equinox (degrees).
     right_ascension_deg, declination_deg : apparent, true equator and equinox of date (degrees).
     distance_au : Earth–Sun distance (au). source : where the positions came from.
     """
+
+    _columnar = True
 
     jd_tt: NDArray
     ecliptic_longitude_deg: NDArray
@@ -107,7 +110,7 @@ class GeocentricSun:
 
 
 @dataclass(frozen=True)
-class SunPosition:
+class SunPosition(Tabular):
     """The Sun seen from a site; every array has the shape of ``jd_tt``.
 
     Times: jd_tt, jd_ut (UT1 Julian dates), delta_t_s and delta_t_sigma_s (seconds; σ is 0
@@ -119,6 +122,8 @@ class SunPosition:
     distance_au (geocentric), equation_of_time_min (apparent − mean solar time, minutes),
     local_apparent_time_h (0..24 hours), source.
     """
+
+    _columnar = True
 
     jd_tt: NDArray
     jd_ut: NDArray

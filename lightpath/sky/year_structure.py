@@ -29,13 +29,16 @@ from lightpath.sky.divisions import SCHEMES, Division, divisions
 from lightpath.sky.instants import local_apparent_day_number
 from lightpath.sky.observer import Observer
 from lightpath.sky.seasons import QUARTER_NAMES, half_years, opening_december_solstice, quarter_days, season_lengths
+from lightpath.sky.tables import Tabular
 
 __all__ = ["QuarterDay", "YearStructure", "year_structure"]
 
 
 @dataclass(frozen=True)
-class QuarterDay:
+class QuarterDay(Tabular):
     """A solstice or equinox: its instant (JD TT and UT), local apparent day and time, ΔT's σ (s)."""
+
+    _day_columns = ("local_apparent_day",)
 
     name: str
     of_year: int  # the year it belongs to (the opening December solstice belongs to Y − 1)
@@ -48,8 +51,10 @@ class QuarterDay:
 
 
 @dataclass(frozen=True)
-class YearStructure:
+class YearStructure(Tabular):
     """The structure of one year at a site (see the module notes); lengths in days."""
+
+    _tables = ("quarter_days", "divisions")
 
     year: int
     observer: Observer

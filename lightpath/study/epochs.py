@@ -39,6 +39,7 @@ from numpy.typing import NDArray
 from lightpath.errors import InputError
 from lightpath.light.results import ScanSettings
 from lightpath.light.scan import scan_settings
+from lightpath.sky.tables import Tabular
 from lightpath.study.execution import run_draws
 from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.uncertainty import Tolerances, make_draws, nominal_draw
@@ -50,8 +51,10 @@ MAX_YEARS = 2000
 
 
 @dataclass(frozen=True)
-class EpochRow:
+class EpochRow(Tabular):
     """The run of light days around the division in one year (days from the division's day)."""
+
+    _day_columns = ("division_day",)
 
     year: int
     division_day: int  # local apparent day of the division (Julian day number)
@@ -66,8 +69,10 @@ class EpochRow:
 
 
 @dataclass(frozen=True)
-class EpochsResult:
+class EpochsResult(Tabular):
     """How the light window drifts against one division over a span of years."""
+
+    _tables = ("rows",)
 
     scene: str
     division: str

@@ -45,6 +45,7 @@ from lightpath.errors import InputError
 from lightpath.light.results import ScanSettings
 from lightpath.light.scan import scan_settings
 from lightpath.light.year import MARGIN_DAYS
+from lightpath.sky.tables import Tabular
 from lightpath.study.execution import run_draws
 from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.null_model import NULL_MODEL_NAME, monte_carlo_p_value, null_azimuths, side_for, sun_arc
@@ -142,8 +143,10 @@ class _Evaluate:
 
 
 @dataclass(frozen=True)
-class DivisionFraming:
+class DivisionFraming(Tabular):
     """The framing test for one division (offsets in days from the division's local day)."""
+
+    _day_columns = ("day",)
 
     name: str
     day: int  # the division's local apparent day at the nominal epoch (Julian day number)
@@ -166,8 +169,10 @@ class DivisionFraming:
 
 
 @dataclass(frozen=True)
-class FramingResult:
+class FramingResult(Tabular):
     """A framing test of one scene at one epoch."""
+
+    _tables = ("divisions",)
 
     scene: str
     epoch_year: int

@@ -44,6 +44,7 @@ from lightpath.light.sweep import find_light
 from lightpath.light.track import Air
 from lightpath.light.window import SkyWindow
 from lightpath.sky.observer import Observer
+from lightpath.sky.tables import Tabular
 from lightpath.study.framing import facing_azimuth_deg, wilson_interval
 from lightpath.study.null_model import NullArc, monte_carlo_p_value, null_azimuths, obliquity_deg
 from lightpath.study.uncertainty import Tolerances, make_draws, rotation_about_up
@@ -54,7 +55,7 @@ LUNAR_NULL_MODEL_NAME = "random orientation over the moonrise/moonset arc"
 
 
 @dataclass(frozen=True)
-class LunarFraming:
+class LunarFraming(Tabular):
     """The result of :func:`lunar_framing` (angles in degrees, instants TT Julian dates)."""
 
     kind: str  # "major" or "minor"

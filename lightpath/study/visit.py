@@ -41,6 +41,7 @@ from lightpath.sky.observer import Observer
 from lightpath.sky.refraction import refraction_bennett1982, refraction_saemundsson1986
 from lightpath.sky.riseset import SunTrack, rise_set_instants
 from lightpath.sky.seasons import YEAR_MAX
+from lightpath.sky.tables import Tabular
 
 __all__ = [
     "REFRACTION_SIGMA_DEG",
@@ -63,7 +64,7 @@ _PRESSURE_MAX_MBAR, _TEMPERATURE_RANGE_C = 1100.0, (-90.0, 60.0)  # what Observe
 
 
 @dataclass(frozen=True)
-class VisitEvent:
+class VisitEvent(Tabular):
     """One light event for a visitor, as instants (JD UT); :mod:`lightpath.present.visits` gives clock times.
 
     ``earliest_*``/``latest_*`` are the extremes among the refraction cases that give the event;
@@ -95,8 +96,10 @@ class VisitEvent:
 
 
 @dataclass(frozen=True)
-class VisitPlan:
+class VisitPlan(Tabular):
     """Every light event in a span of time at one site."""
+
+    _tables = ("events",)
 
     scene: str
     timezone: str | None  # the site's IANA zone, for clock times
