@@ -78,9 +78,11 @@ def parse_years(text: str, option: str = "--years") -> list[int]:
 
 
 def check_years(years: Sequence[int], what: str = "years") -> list[int]:
-    """Whole years within the supported range, else :class:`InputError`."""
+    """Whole years (integers, astronomical numbering, or labels such as ``"2500 BC"``) within the supported range,
+    else :class:`InputError`."""
     out = []
-    for y in years:
+    for y in [years] if isinstance(years, int | str) else years:
+        y = year_from_label(y, what) if isinstance(y, str) else y
         if isinstance(y, bool) or not isinstance(y, int | np.integer) or not YEAR_MIN <= int(y) <= YEAR_MAX:
             raise InputError(f"{what}: {y!r} is not a whole year in {YEAR_MIN}..{YEAR_MAX} (astronomical numbering)")
         out.append(int(y))

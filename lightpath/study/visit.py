@@ -313,16 +313,20 @@ def visit_scene(
     ``scene`` is a :class:`lightpath.scene.Scene` or a scene file's path; ``options`` and
     ``window_options`` the engine's :class:`~lightpath.light.options.ScanOptions` and
     :class:`~lightpath.light.options.WindowOptions` (``settings``: their fields, laid over them);
-    ``window`` an already prepared :class:`lightpath.light.window.SkyWindow` of the scene.
+    ``window`` an already prepared :class:`lightpath.light.window.SkyWindow` of the scene.  ``first_jd_ut`` and
+    ``last_jd_ut`` may also be any instant :func:`lightpath.sky.moments.to_jd_ut` reads (a datetime, a string).
     Sunrise and sunset use :func:`lightpath.sky.sun.sun_position` with the model ΔT, over the scene's horizon.
     """
     from lightpath.light.options import split_settings
     from lightpath.light.scan import prepare_window, scan_window
+    from lightpath.sky.moments import to_jd_ut
 
     if not hasattr(scene, "observer"):
         from lightpath.scene import load_scene
 
         scene = load_scene(scene)
+    first_jd_ut = to_jd_ut(first_jd_ut, scene.observer, what="first_jd_ut")  # or a datetime, a string …
+    last_jd_ut = to_jd_ut(last_jd_ut, scene.observer, what="last_jd_ut")
     w_options, s_options = split_settings(settings, window_options, options)
     if window is None:
         window = prepare_window(scene, w_options)
