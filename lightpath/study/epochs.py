@@ -38,16 +38,30 @@ from numpy.typing import NDArray
 
 from lightpath.errors import InputError
 from lightpath.light.results import ScanSettings
+from lightpath.light.scan import MAX_YEARS as SCAN_MAX_YEARS
 from lightpath.light.scan import scan_settings
 from lightpath.sky.tables import Tabular
-from lightpath.study.execution import run_draws
+from lightpath.study.execution import Execution, run_draws
 from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
-from lightpath.study.uncertainty import Tolerances, make_draws, nominal_draw
+from lightpath.study.uncertainty import Draw, Tolerances, make_draws, nominal_draw
 
 __all__ = ["EpochRow", "EpochsResult", "alignment_epochs", "drift_days_per_century", "spans_of"]
 
-#: Most years one study may ask for.
-MAX_YEARS = 2000
+#: Most years one study may ask for (as many as a scan).
+MAX_YEARS = SCAN_MAX_YEARS
+
+
+class _EpochTask:
+    """Picklable ``draw → (1, 3) days``; the nominal draw (index −1) also returns the division's day."""
+
+    def __init__(self, light: LightDays) -> None:
+        self.light = light
+
+    def __call__(self, draw: Draw):
+        days = self.light.evaluate_draw(draw)
+        if draw.index == -1:
+            return days, int(self.light.division_days(draw.year)[0])
+        return days
 
 
 @dataclass(frozen=True)
@@ -149,6 +163,7 @@ def alignment_epochs(
     seed: int = 0,
     workers: int = 1,
     client: Any = None,
+    execution: Execution | None = None,
     progress: Callable[[int], Any] | None = None,
     scene_label: str = "",
 ) -> EpochsResult:
@@ -162,7 +177,9 @@ def alignment_epochs(
     axis_enu, distance_m : target→opening vector (metres) for the position tolerances.
     tolerances : one-sigma spreads (the epoch's spread is not used: every year is studied).
     draws : Monte Carlo draws per year (0: surveyed geometry only).
-    seed, workers, client, progress : as in :func:`lightpath.study.framing.framing_test`.
+    seed, workers, client, execution, progress : as in :func:`lightpath.study.framing.framing_test`; the
+        draws go out in chunks of consecutive years, and each year's division day comes back with its
+        nominal draw (this process computes no year's sky but the first).
     """
     if isinstance(step_years, bool) or not isinstance(step_years, int) or step_years < 1:
         raise InputError(f"step_years: {step_years!r} is not a whole number of years ≥ 1")
@@ -184,7 +201,10 @@ def alignment_epochs(
         tasks.append(nominal_draw(y, obs.temperature_c, obs.pressure_mbar))
         tasks += make_draws(tol, draws, seed=seed, year=y, axis_enu=axis_enu, distance_m=dist,
                             temperature_c=obs.temperature_c, pressure_mbar=obs.pressure_mbar)  # fmt: skip
-    results = np.array(run_draws(light, tasks, workers=workers, client=client, progress=progress))
+    values = run_draws(_EpochTask(light), tasks, workers=workers, client=client, execution=execution,
+                       progress=progress, group=[t.year for t in tasks], name="epochs")  # fmt: skip
+    division_days = [values[i * (1 + draws)][1] for i in range(len(years))]  # from the workers' own skies
+    results = np.array([v[0] if isinstance(v, tuple) else v for v in values])
     results = results.reshape(len(years), 1 + draws, 3)  # (years, nominal + draws, [nearest, first, last])
     from lightpath.sky.calendar import calendar_for
 
@@ -194,7 +214,7 @@ def alignment_epochs(
         inside = bool(np.isfinite(nominal[1]) and nominal[1] <= 0 <= nominal[2])
         with np.errstate(invalid="ignore"):
             inside_draws = (sample[:, 1] <= 0) & (sample[:, 2] >= 0)
-        day = int(light.division_days(y)[0])
+        day = int(division_days[i])
         rows.append(
             EpochRow(
                 year=y,

@@ -46,7 +46,7 @@ from lightpath.light.results import ScanSettings
 from lightpath.light.scan import scan_settings
 from lightpath.light.year import MARGIN_DAYS
 from lightpath.sky.tables import Tabular
-from lightpath.study.execution import run_draws
+from lightpath.study.execution import Execution, run_draws
 from lightpath.study.light_days import DAY_NOTE, UNVERIFIED_NOTE, VERIFIED_FROM_YEAR, LightDays
 from lightpath.study.null_model import NULL_MODEL_NAME, monte_carlo_p_value, null_azimuths, side_for, sun_arc
 from lightpath.study.uncertainty import Draw, Tolerances, make_draws, nominal_draw, rotation_about_up
@@ -224,6 +224,7 @@ def framing_test(
     seed: int = 0,
     workers: int = 1,
     client: Any = None,
+    execution: Execution | None = None,
     progress: Callable[[int], Any] | None = None,
     scene_label: str = "",
 ) -> FramingResult:
@@ -240,7 +241,8 @@ def framing_test(
     within_days : a division is framed when light comes on a day within ±``within_days`` of it.
     draws, null_draws : Monte Carlo draws of the survey and orientations of the null model.
     seed : the study's seed.
-    workers, client : where draws run (:func:`lightpath.study.execution.run_draws`).
+    workers, client, execution : where draws run (:func:`lightpath.study.execution.run_draws`); survey
+        draws and null orientations go in separate chunks, each grouped by year.
     progress : ``progress(n)`` after every n finished draws.
     """
     if isinstance(within_days, bool) or not isinstance(within_days, int) or not 0 <= within_days <= MARGIN_DAYS:
@@ -263,8 +265,10 @@ def framing_test(
     nulls = [NullTask(i, year, reference, float(a - reference)) for i, a in enumerate(azimuths)]
     names = light.division_names(year)  # checks the division names before any work is sent out
     nominal = nominal_draw(year, obs.temperature_c, obs.pressure_mbar)
-    results = run_draws(_Evaluate(light), [nominal, *survey, *nulls], workers=workers, client=client,
-                        progress=progress)  # fmt: skip
+    tasks = [nominal, *survey, *nulls]
+    kinds = ["nominal"] + ["survey"] * len(survey) + ["null"] * len(nulls)  # their costs differ: never mixed
+    results = run_draws(_Evaluate(light), tasks, workers=workers, client=client, execution=execution,
+                        progress=progress, kinds=kinds, group=[t.year for t in tasks], name="frame")  # fmt: skip
     observed = results[0]
     s_runs = np.array(results[1 : 1 + draws]).reshape(draws, len(names), 3)
     n_runs = np.array(results[1 + draws :]).reshape(null_draws, len(names), 3)
